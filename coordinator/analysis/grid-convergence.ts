@@ -1,0 +1,328 @@
+// Grid convergence on the resolution axis of a sweep: apparent order, Richardson extrapolation and the grid
+// convergence index (GCI, Roache's safety factor 1.25), after Celik et al., "Procedure for estimation and reporting
+// of uncertainty due to discretization in CFD applications", J. Fluids Eng. 130(7), 078001, 2008. Pure functions.
+import { z } from 'zod';
+
+/** How three solutions behave as the grid is refined (convergence ratio R = ε21/ε32 of Stern et al., J. Fluids Eng. 123, 2001). */
+export const ConvergenceBehaviourSchema = z.enum([
+  /** 0 < R < 1: differences shrink with refinement, one sign. */
+  'monotone',
+  /** R < 0: the solution swings from one side to the other. */
+  'oscillatory',
+  /** R >= 1, or no positive apparent order: differences do not shrink. */
+  'divergent',
+  /** ε21 or ε32 is zero: the order cannot be estimated. */
+  'zero_difference',
+]);
+export type ConvergenceBehaviour = z.infer<typeof ConvergenceBehaviourSchema>;
+
+/** What the user should do: results within tolerance, refine the grid, or distrust the resolution study. */
+export const ConvergenceVerdictSchema = z.enum(['converged', 'refine', 'unreliable']);
+export type ConvergenceVerdict = z.infer<typeof ConvergenceVerdictSchema>;
+
+export interface GridLevel {
+  /** Representative cell size (any unit: only ratios enter). */
+  h: number;
+  /** The solution on this grid. */
+  phi: number;
+}
+
+export interface GridConvergenceOptions {
+  /** Safety factor of the GCI. @defaultValue 1.25 (Celik et al. 2008, eq. 8 with three grids) */
+  readonly safetyFactor?: number;
+  /** Largest acceptable uncertainty of the fine solution, in its own unit, for the `converged` verdict. @defaultValue Infinity */
+  readonly tolerance?: number;
+}
+
+export interface GridConvergenceResult {
+  /** Every level given, finest first. */
+  levels: GridLevel[];
+  h1: number;
+  h2: number;
+  h3: number;
+  phi1: number;
+  phi2: number;
+  phi3: number;
+  r21: number;
+  r32: number;
+  eps21: number;
+  eps32: number;
+  /** Apparent order p (NaN where it cannot be estimated). */
+  apparentOrder: number;
+  /** Richardson-extrapolated value φ_ext21 (NaN without an order). */
+  phiExtrapolated: number;
+  /** e_a21 = |(φ1 − φ2)/φ1|. */
+  relativeError21: number;
+  /** e_ext21 = |(φ_ext − φ1)/φ_ext| (NaN without an order). */
+  extrapolatedRelativeError21: number;
+  /** GCI_fine21 = Fs·e_a21/(r21^p − 1) (NaN without an order). */
+  gciFine21: number;
+  /** The same band in the solution's own unit: Fs·|ε21|/(r21^p − 1); half the range of the three when oscillatory. */
+  uncertainty: number;
+  behaviour: ConvergenceBehaviour;
+  verdict: ConvergenceVerdict;
+  /** One sentence on what the numbers mean and what to do. */
+  advice: string;
+}
+
+/**
+ * Apparent order by fixed-point iteration p = |ln|ε32/ε21| + q(p)|/ln r21, q(p) = ln((r21^p − s)/(r32^p − s)),
+ * s = sign(ε32/ε21) (Celik et al. 2008, eqs. 3a–3c), started from q = 0. NaN if it does not settle.
+ */
+export function apparentOrder(r21: number, r32: number, eps21: number, eps32: number): number {
+  const s = Math.sign(eps32 / eps21);
+  const lnRatio = Math.log(Math.abs(eps32 / eps21));
+  const lnR21 = Math.log(r21);
+  let p = Math.abs(lnRatio) / lnR21;
+  for (let k = 0; k < 200; k++) {
+    const num = r21 ** p - s;
+    const den = r32 ** p - s;
+    if (!(num > 0 && den > 0)) return Number.NaN;
+    const next = Math.abs(lnRatio + Math.log(num / den)) / lnR21;
+    if (!Number.isFinite(next)) return Number.NaN;
+    if (Math.abs(next - p) <= 1e-12 * Math.max(1, p)) return next;
+    p = next;
+  }
+  return Number.NaN;
+}
+
+/** Convergence figures of the three finest of `levels` (at least three, distinct cell sizes). */
+export function gridConvergence(levels: readonly GridLevel[], options: GridConvergenceOptions = {}): GridConvergenceResult {
+  const fs = options.safetyFactor ?? 1.25;
+  const tolerance = options.tolerance ?? Number.POSITIVE_INFINITY;
+  const sorted = [...levels].sort((a, b) => a.h - b.h);
+  if (sorted.length < 3) throw new Error(`gridConvergence: needs three grid levels (got ${sorted.length})`);
+  for (let k = 1; k < sorted.length; k++) {
+    if (!(sorted[k].h > sorted[k - 1].h)) throw new Error(`gridConvergence: cell sizes must differ (h = ${sorted[k].h} twice)`);
+  }
+  for (const l of sorted) if (!(l.h > 0) || !Number.isFinite(l.phi)) throw new Error('gridConvergence: h must be > 0 and φ finite');
+  const [g1, g2, g3] = sorted;
+  const r21 = g2.h / g1.h;
+  const r32 = g3.h / g2.h;
+  const eps21 = g2.phi - g1.phi;
+  const eps32 = g3.phi - g2.phi;
+  // e_a21 (Celik et al. 2008, eq. 5a).
+  const relativeError21 = Math.abs((g1.phi - g2.phi) / g1.phi);
+  const base = {
+    levels: sorted,
+    h1: g1.h, h2: g2.h, h3: g3.h,
+    phi1: g1.phi, phi2: g2.phi, phi3: g3.phi,
+    r21, r32, eps21, eps32, relativeError21,
+  };
+  const scale = Math.max(Math.abs(g1.phi), Math.abs(g2.phi), Math.abs(g3.phi), Number.MIN_VALUE);
+  const zero = (e: number) => Math.abs(e) <= 1e-12 * scale;
+  const none = { apparentOrder: Number.NaN, phiExtrapolated: Number.NaN, extrapolatedRelativeError21: Number.NaN, gciFine21: Number.NaN };
+  if (zero(eps21) || zero(eps32)) {
+    const both = zero(eps21) && zero(eps32);
+    return {
+      ...base, ...none,
+      uncertainty: both ? 0 : Number.NaN,
+      behaviour: 'zero_difference',
+      verdict: both ? 'converged' : 'unreliable',
+      advice: both
+        ? 'the three finest grids agree exactly: no discretisation error is visible at these resolutions'
+        : 'two neighbouring grids agree exactly while the third differs: the order cannot be estimated; add a finer level',
+    };
+  }
+  const ratio = eps21 / eps32;
+  if (ratio < 0) {
+    // Oscillatory: the uncertainty is half the range of the three solutions (Stern et al. 2001, §"oscillatory").
+    const uncertainty = (Math.max(g1.phi, g2.phi, g3.phi) - Math.min(g1.phi, g2.phi, g3.phi)) / 2;
+    const p = apparentOrder(r21, r32, eps21, eps32);
+    const within = uncertainty <= tolerance;
+    return {
+      ...base, ...none,
+      apparentOrder: p,
+      uncertainty,
+      behaviour: 'oscillatory',
+      verdict: within ? 'converged' : 'refine',
+      advice: within
+        ? `oscillates between grids within ±${fmt(uncertainty)}, inside the tolerance`
+        : `oscillates between grids by ±${fmt(uncertainty)}: refine the grid until the swing is inside the tolerance`,
+    };
+  }
+  const p = apparentOrder(r21, r32, eps21, eps32);
+  if (ratio >= 1 || !(p > 0)) {
+    return {
+      ...base, ...none,
+      apparentOrder: p,
+      uncertainty: Number.NaN,
+      behaviour: 'divergent',
+      verdict: 'unreliable',
+      advice: 'differences do not shrink as the grid is refined: the grids are too coarse or something other than the cell size limits the accuracy',
+    };
+  }
+  const rp = r21 ** p;
+  // φ_ext21 = (r21^p·φ1 − φ2)/(r21^p − 1) (Celik et al. 2008, eq. 4a).
+  const phiExtrapolated = (rp * g1.phi - g2.phi) / (rp - 1);
+  // e_ext21 = |(φ_ext − φ1)/φ_ext| (eq. 5b); GCI_fine21 = Fs·e_a21/(r21^p − 1) (eq. 5c).
+  const extrapolatedRelativeError21 = Math.abs((phiExtrapolated - g1.phi) / phiExtrapolated);
+  const gciFine21 = (fs * relativeError21) / (rp - 1);
+  const uncertainty = (fs * Math.abs(eps21)) / (rp - 1);
+  const within = uncertainty <= tolerance;
+  return {
+    ...base,
+    apparentOrder: p,
+    phiExtrapolated,
+    extrapolatedRelativeError21,
+    gciFine21,
+    uncertainty,
+    behaviour: 'monotone',
+    verdict: within ? 'converged' : 'refine',
+    advice: within
+      ? `converges at order ${p.toFixed(2)}; the fine grid is within ±${fmt(uncertainty)} of the grid-independent value`
+      : `converges at order ${p.toFixed(2)} but the fine grid is only within ±${fmt(uncertainty)}: refine the grid`,
+  };
+}
+
+function fmt(v: number): string {
+  return Number.isFinite(v) ? v.toPrecision(3) : String(v);
+}
+
+// ---- Grouping the runs of a sweep ----------------------------------------------------------------------------
+
+/** The resolution parameter of the sweep and how it maps to a cell size. */
+export const ResolutionAxisSchema = z.enum([
+  /** `grid.cells_per_wavelength`: h ∝ 1/cpw at a fixed frequency. */
+  'cells_per_wavelength',
+  /** `grid.cell_size_m`: h itself. */
+  'cell_size_m',
+]);
+export type ResolutionAxis = z.infer<typeof ResolutionAxisSchema>;
+
+export const ConvergenceOutputSchema = z.enum(['ez_db_uv_per_m', 'ez_phase_deg']);
+export type ConvergenceOutput = z.infer<typeof ConvergenceOutputSchema>;
+
+/** One row of convergence.parquet: one group of otherwise-equal runs, one receiver, one output. */
+export const ConvergenceRowSchema = z.strictObject({
+  /** The other varied parameters of the group, as canonical JSON (`{}` when only the resolution varies). */
+  group: z.string(),
+  output: ConvergenceOutputSchema,
+  range_m: z.number(),
+  height_m: z.number(),
+  resolution_axis: ResolutionAxisSchema,
+  /** Every resolution value of the group, finest first, and the output at each (phase unwrapped against the finest). */
+  resolution_values: z.array(z.number()),
+  output_values: z.array(z.number()),
+  r21: z.number(),
+  r32: z.number(),
+  phi1: z.number(),
+  phi2: z.number(),
+  phi3: z.number(),
+  apparent_order: z.number().nullable(),
+  phi_extrapolated: z.number().nullable(),
+  e_a21: z.number(),
+  e_ext21: z.number().nullable(),
+  gci_fine21: z.number().nullable(),
+  /** Uncertainty band of the finest run, in the output's unit (dB or degrees). */
+  uncertainty: z.number().nullable(),
+  tolerance: z.number(),
+  behaviour: ConvergenceBehaviourSchema,
+  verdict: ConvergenceVerdictSchema,
+  advice: z.string(),
+});
+export type ConvergenceRow = z.infer<typeof ConvergenceRowSchema>;
+
+export type ParamValue = string | number | boolean | null;
+
+/** One finished run as the grouping needs it. */
+export interface ConvergenceRun {
+  /** The varied parameters (the resolution parameter may be among them; it is ignored for grouping). */
+  params: Readonly<Record<string, ParamValue>>;
+  /** Value of the resolution parameter of this run. */
+  resolution: number;
+  receivers: ReadonlyArray<{ range_m: number; height_m: number; ez_db_uv_per_m: number; ez_phase_deg: number }>;
+}
+
+export interface ConvergenceTableOptions {
+  readonly axis: ResolutionAxis;
+  /** Sweep column of the resolution parameter, left out of the grouping. @defaultValue `grid_<axis>` */
+  readonly resolutionColumn?: string;
+  /** Tolerance on field strength, dB. @defaultValue 0.2 (a Loamwave choice, not a published value) */
+  readonly toleranceDb?: number;
+  /** Tolerance on phase, degrees. @defaultValue 1 (a Loamwave choice, not a published value) */
+  readonly tolerancePhaseDeg?: number;
+}
+
+/** Representative cell size of a resolution value: h ∝ 1/cpw, or h itself. */
+export function cellSizeOf(axis: ResolutionAxis, resolution: number): number {
+  return axis === 'cells_per_wavelength' ? 1 / resolution : resolution;
+}
+
+/** Shift each phase by whole turns to lie within 180° of `reference` (degrees). */
+export function unwrapAgainst(reference: number, phaseDeg: number): number {
+  return phaseDeg + 360 * Math.round((reference - phaseDeg) / 360);
+}
+
+function canonicalGroup(params: Readonly<Record<string, ParamValue>>, skip: string): string {
+  const keys = Object.keys(params).filter((k) => k !== skip).sort();
+  return JSON.stringify(Object.fromEntries(keys.map((k) => [k, params[k]])));
+}
+
+/**
+ * Convergence rows for every group of runs that differ only in resolution and have at least three distinct
+ * resolution levels, per receiver and output (field strength in dB, phase in degrees unwrapped against the
+ * finest level). Groups with fewer levels give no rows. More than three levels: the three finest are analysed
+ * and every level is listed.
+ */
+export function convergenceTable(runs: readonly ConvergenceRun[], options: ConvergenceTableOptions): ConvergenceRow[] {
+  const column = options.resolutionColumn ?? `grid_${options.axis}`;
+  const groups = new Map<string, ConvergenceRun[]>();
+  for (const run of runs) {
+    const key = canonicalGroup(run.params, column);
+    const list = groups.get(key) ?? [];
+    list.push(run);
+    groups.set(key, list);
+  }
+  const rows: ConvergenceRow[] = [];
+  for (const [group, list] of [...groups.entries()].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))) {
+    // One run per resolution level, finest first.
+    const byLevel = new Map<number, ConvergenceRun>();
+    for (const run of list) if (!byLevel.has(run.resolution)) byLevel.set(run.resolution, run);
+    const ordered = [...byLevel.values()].sort(
+      (a, b) => cellSizeOf(options.axis, a.resolution) - cellSizeOf(options.axis, b.resolution),
+    );
+    if (ordered.length < 3) continue;
+    for (const receiver of ordered[0].receivers) {
+      const at = ordered.map((run) =>
+        run.receivers.find((r) => r.range_m === receiver.range_m && r.height_m === receiver.height_m),
+      );
+      if (at.some((r) => r === undefined)) continue;
+      for (const output of ConvergenceOutputSchema.options) {
+        const raw = at.map((r) => r![output]);
+        const values = output === 'ez_phase_deg' ? raw.map((v) => unwrapAgainst(raw[0], v)) : raw;
+        const tolerance = output === 'ez_phase_deg' ? (options.tolerancePhaseDeg ?? 1) : (options.toleranceDb ?? 0.2);
+        const result = gridConvergence(
+          ordered.map((run, k) => ({ h: cellSizeOf(options.axis, run.resolution), phi: values[k] })),
+          { tolerance },
+        );
+        const orNull = (v: number) => (Number.isFinite(v) ? v : null);
+        rows.push({
+          group,
+          output,
+          range_m: receiver.range_m,
+          height_m: receiver.height_m,
+          resolution_axis: options.axis,
+          resolution_values: ordered.map((run) => run.resolution),
+          output_values: values,
+          r21: result.r21,
+          r32: result.r32,
+          phi1: result.phi1,
+          phi2: result.phi2,
+          phi3: result.phi3,
+          apparent_order: orNull(result.apparentOrder),
+          phi_extrapolated: orNull(result.phiExtrapolated),
+          e_a21: result.relativeError21,
+          e_ext21: orNull(result.extrapolatedRelativeError21),
+          gci_fine21: orNull(result.gciFine21),
+          uncertainty: orNull(result.uncertainty),
+          tolerance,
+          behaviour: result.behaviour,
+          verdict: result.verdict,
+          advice: result.advice,
+        });
+      }
+    }
+  }
+  return rows;
+}
