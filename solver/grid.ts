@@ -1,0 +1,207 @@
+// The Yee grid of one case: cell sizes, time step, cell counts, per-cell update coefficients.
+// Pure: builds typed arrays from a validated case; no I/O.
+//
+// Layout (i along range, k along height, k the fast index, one stride S = nz + 1 for every array):
+//   Hy[i][k] at ((i+½)Δx, z_k + Δz_k/2)   i ∈ [0,nx), k ∈ [0,nz)
+//   Ex[i][k] at ((i+½)Δx, z_k)             i ∈ [0,nx), k ∈ [0,nz]
+//   Ez[i][k] at ( i·Δx,  z_k + Δz_k/2)     i ∈ [0,nx], k ∈ [0,nz)
+// Column i = 0 is the axis (axisymmetric) or the symmetry plane of the source (planar).
+// Ex row `groundRow` lies on the ground surface z = 0; rows below it are resolved ground cells.
+import type { Case, GroundSegment } from '../schemas/case.js';
+import { C0, EPS0, MU0 } from './constants.js';
+import { groundImpedance } from './surface-impedance.js';
+
+/** Exponential ionosphere: σ(z) = ε0·2.5e5·exp(β(z − h′)) S/m, z and h′ in km (Wait & Spies, NBS Tech. Note 300, 1964). */
+export function ionosphereConductivity(heightM: number, hPrimeKm: number, betaPerKm: number): number {
+  return EPS0 * 2.5e5 * Math.exp(betaPerKm * (heightM / 1000 - hPrimeKm));
+}
+
+export interface GridPlan {
+  /** Cell size along range and in the air, m. */
+  dxM: number;
+  /** Time step, s (a whole number of steps per period). */
+  dtS: number;
+  stepsPerPeriod: number;
+  /** Courant number actually used, as a fraction of the 2-D limit of the finest cells. */
+  courant: number;
+  nx: number;
+  nz: number;
+  /** Cells along range inside the computed region (before the absorbing layer). */
+  cellsRange: number;
+  /** Ex row on the ground surface. */
+  groundRow: number;
+  /** Cell height of each row k ∈ [0,nz), m. */
+  dzM: Float64Array;
+  /** Height of Ex row k ∈ [0,nz] above the ground surface, m. */
+  zNodeM: Float64Array;
+  /** Absorbing layer thickness at the far side (cells) and at the top (rows; 0 for a pec ceiling). */
+  pmlX: number;
+  pmlTop: number;
+  memoryBytes: number;
+}
+
+const FIELD_AND_COEFFICIENT_ARRAYS = 7; // Ex, Ez, Hy + caEx, cbEx, caEz, cbEz
+
+function segmentAt(segments: readonly GroundSegment[], xM: number): GroundSegment {
+  let s = segments[0];
+  for (const seg of segments) if (seg.start_m <= xM) s = seg;
+  return s;
+}
+
+/** Cell size, time step and cell counts of a case (cheap: no arrays of cells). */
+export function planGrid(c: Case): GridPlan {
+  const lambdaM = C0 / c.frequency_hz;
+  const dxM = c.grid.cell_size_m ?? lambdaM / (c.grid.cells_per_wavelength ?? 20);
+  const npml = c.grid.absorbing_cells;
+  const cellsRange = Math.ceil(c.domain.range_m / dxM);
+  const nx = cellsRange + npml;
+
+  // Rows below ground (resolved model): cells of a quarter of the smallest skin depth, down to the requested
+  // number of skin depths of the most penetrable segment, then a perfect conductor (the lossy cells absorb:
+  // the wave returning from the bottom is down by e^{−2·depth/δ}).
+  let groundRows = 0;
+  let dzGroundM = dxM;
+  if (c.ground.model === 'resolved') {
+    const depths = (c.ground.segments ?? []).map((s) => groundImpedance(c.frequency_hz, s.conductivity_s_per_m, s.relative_permittivity).skinDepthM);
+    const deltaMin = Math.min(...depths);
+    const deltaMax = Math.max(...depths);
+    dzGroundM = Math.min(dxM, deltaMin / 4);
+    groundRows = Math.ceil((c.ground.resolved_depth_skin_depths * deltaMax) / dzGroundM);
+  }
+  let airRows: number;
+  let pmlTop: number;
+  if (c.upper_boundary.kind === 'pec') {
+    airRows = Math.max(2, Math.round(c.upper_boundary.height_m / dxM));
+    pmlTop = 0;
+  } else {
+    airRows = Math.ceil(c.domain.height_m / dxM) + npml;
+    pmlTop = npml;
+  }
+  const nz = groundRows + airRows;
+  const dzM = new Float64Array(nz);
+  for (let k = 0; k < nz; k++) dzM[k] = k < groundRows ? dzGroundM : dxM;
+  const zNodeM = new Float64Array(nz + 1);
+  for (let k = 0; k <= nz; k++) zNodeM[k] = (k - groundRows) * (k <= groundRows ? dzGroundM : dxM);
+
+  // 2-D Courant limit of the finest cells, Δt ≤ 1/(c·√(1/Δx² + 1/Δz²)) (Taflove & Hagness, Computational
+  // Electrodynamics, ch. 4); in the ground the local wave speed is c/√εr, which relaxes its limit.
+  let dtLimit = 1 / (C0 * Math.sqrt(1 / (dxM * dxM) + 1 / (dxM * dxM)));
+  if (groundRows > 0) {
+    const epsMin = Math.min(...(c.ground.segments ?? []).map((s) => s.relative_permittivity));
+    const vGround = C0 / Math.sqrt(epsMin);
+    dtLimit = Math.min(dtLimit, 1 / (vGround * Math.sqrt(1 / (dxM * dxM) + 1 / (dzGroundM * dzGroundM))));
+    // the first air row above the fine ground rows uses the air speed with the mean spacing
+    const dzMix = (dxM + dzGroundM) / 2;
+    dtLimit = Math.min(dtLimit, 1 / (C0 * Math.sqrt(1 / (dxM * dxM) + 1 / (dzMix * dzMix))));
+  }
+  // Whole number of steps per period, so a DFT over whole periods is exact (REFERENCES.md, numerical notes).
+  const periodS = 1 / c.frequency_hz;
+  const stepsPerPeriod = Math.ceil(periodS / (c.grid.courant * dtLimit));
+  const dtS = periodS / stepsPerPeriod;
+  const cells = (nx + 1) * (nz + 1);
+  const pmlCells = 2 * (npml * (nz + 1) + pmlTop * (nx + 1));
+  const memoryBytes = 8 * (FIELD_AND_COEFFICIENT_ARRAYS * cells + pmlCells) + 8 * 6 * (nx + nz);
+  return {
+    dxM,
+    dtS,
+    stepsPerPeriod,
+    courant: dtS / dtLimit,
+    nx,
+    nz,
+    cellsRange,
+    groundRow: groundRows,
+    dzM,
+    zNodeM,
+    pmlX: npml,
+    pmlTop,
+    memoryBytes,
+  };
+}
+
+export interface Materials {
+  caEx: Float64Array;
+  cbEx: Float64Array;
+  caEz: Float64Array;
+  cbEz: Float64Array;
+}
+
+/**
+ * Lossy-medium coefficients, semi-implicit in the loss term so they are stable for any σ:
+ * a = σΔt/(2ε), ca = (1 − a)/(1 + a), cb = (Δt/ε)/(1 + a) (Taflove & Hagness, ch. 3), with the spatial step folded
+ * into cb (Ex: the dual cell height; Ez: Δx, and the axis factor of the on-axis update).
+ */
+export function buildMaterials(c: Case, g: GridPlan): Materials {
+  const { nx, nz, dxM, dtS, dzM, zNodeM, groundRow } = g;
+  const S = nz + 1;
+  const size = (nx + 1) * S;
+  const caEx = new Float64Array(size);
+  const cbEx = new Float64Array(size);
+  const caEz = new Float64Array(size);
+  const cbEz = new Float64Array(size);
+  const segments = c.ground.segments ?? [];
+  const iono = c.upper_boundary.kind === 'exponential' ? c.upper_boundary : undefined;
+
+  const airSigma = (zM: number): number => (iono ? ionosphereConductivity(zM, iono.h_prime_km, iono.beta_per_km) : 0);
+  const coeff = (eps: number, sigma: number): [number, number] => {
+    const a = (sigma * dtS) / (2 * eps);
+    return [(1 - a) / (1 + a), dtS / eps / (1 + a)];
+  };
+
+  for (let i = 0; i <= nx; i++) {
+    const xEx = (i + 0.5) * dxM;
+    const xEz = i * dxM;
+    const segEx = segments.length ? segmentAt(segments, xEx) : undefined;
+    const segEz = segments.length ? segmentAt(segments, xEz) : undefined;
+    for (let k = 0; k <= nz; k++) {
+      const ik = i * S + k;
+      // Ex at z_k: dual cell from the middle of the row below to the middle of the row above
+      const below = k > 0 ? dzM[k - 1] : dzM[0];
+      const above = k < nz ? dzM[k] : dzM[nz - 1];
+      const dual = (below + above) / 2;
+      let epsEx = EPS0;
+      let sigEx = airSigma(zNodeM[k]);
+      if (k < groundRow && segEx) {
+        epsEx = EPS0 * segEx.relative_permittivity;
+        sigEx = segEx.conductivity_s_per_m;
+      } else if (k === groundRow && groundRow > 0 && segEx) {
+        // interface node: the dual cell is half ground, half air (weighted by height)
+        epsEx = (EPS0 * segEx.relative_permittivity * below + EPS0 * above) / (below + above);
+        sigEx = (segEx.conductivity_s_per_m * below) / (below + above);
+      }
+      const [ca1, cb1] = coeff(epsEx, sigEx);
+      caEx[ik] = ca1;
+      cbEx[ik] = cb1 / dual;
+      if (k < nz) {
+        const zMid = zNodeM[k] + dzM[k] / 2;
+        let epsEz = EPS0;
+        let sigEz = airSigma(zMid);
+        if (k < groundRow && segEz) {
+          epsEz = EPS0 * segEz.relative_permittivity;
+          sigEz = segEz.conductivity_s_per_m;
+        }
+        const [ca2, cb2] = coeff(epsEz, sigEz);
+        caEz[ik] = ca2;
+        cbEz[ik] = cb2 / dxM;
+      }
+    }
+  }
+  return { caEx, cbEx, caEz, cbEz };
+}
+
+/** Axis factors of the Ez update: (1/r)∂(rH)/∂r ≈ (rp·H[i] − rm·H[i−1])/Δx; planar: 1 and 1. */
+export function radialFactors(c: Case, nx: number): { rp: Float64Array; rm: Float64Array; axisFactor: number } {
+  const rp = new Float64Array(nx + 1).fill(1);
+  const rm = new Float64Array(nx + 1).fill(1);
+  if (c.geometry === 'axisymmetric') {
+    for (let i = 1; i <= nx; i++) {
+      rp[i] = (i + 0.5) / i;
+      rm[i] = (i - 0.5) / i;
+    }
+  }
+  // On the axis, Ampère's law on a disk of radius Δr/2: ∂Ez/∂t = (4/(εΔr))·Hφ(Δr/2) (Taflove & Hagness,
+  // body-of-revolution chapter). On the planar symmetry plane Hy(−Δx/2) = −Hy(Δx/2), so the factor is 2.
+  const axisFactor = c.geometry === 'axisymmetric' ? 4 : 2;
+  return { rp, rm, axisFactor };
+}
+
+export { MU0 };

@@ -1,0 +1,288 @@
+// solve(case): run one case on its Yee grid to steady state and return rms phasors at the receivers.
+// Pure and deterministic: no I/O, no clock; the same case gives bit-identical numbers.
+import type { Case } from '../schemas/case.js';
+import { UserError } from '../schemas/errors.js';
+import type { ReceiverResult, SolveResult } from '../schemas/result.js';
+import { C0, MU0 } from './constants.js';
+import { cpmlProfile } from './cpml.js';
+import { SolveCancelledError, SolverDivergedError } from './errors.js';
+import {
+  applySurfaceImpedance,
+  updateE,
+  updateECpml,
+  updateH,
+  updateHCpml,
+  type CpmlState,
+  type ImpedanceRow,
+  type YeeFields,
+} from './fdtd-kernel.js';
+import { buildMaterials, planGrid, radialFactors, type GridPlan } from './grid.js';
+import { buildReceiverTaps, RunningDft, type Tap } from './receivers.js';
+import { sourceCurrent, targetMoment } from './source.js';
+import { groundImpedance } from './surface-impedance.js';
+import { SOLVER_VERSION } from './version.js';
+
+export { SolveCancelledError, SolverDivergedError } from './errors.js';
+export { SOLVER_VERSION, SOLVER_MAJOR } from './version.js';
+
+export interface SolveOptions {
+  /** Called now and then with the fraction of the expected steps done (may exceed 1 if settling takes longer). */
+  onProgress?: (fraction: number) => void;
+  /** Polled every few hundred steps; returning true stops the solve with SolveCancelledError. */
+  shouldStop?: () => boolean;
+}
+
+/** Relative change of the receiver phasors between two consecutive DFT windows taken as settled. */
+const SETTLED_RELATIVE_CHANGE = 1e-4;
+/** Loss tangent below which the impedance model draws a warning (rule of thumb: common practice). */
+const LOSS_TANGENT_WARN = 10;
+
+interface Schedule {
+  rampSteps: number;
+  /** Steps before the first DFT window starts. */
+  settleSteps: number;
+  windowSteps: number;
+}
+
+function schedule(c: Case, g: GridPlan): Schedule {
+  const N = g.stepsPerPeriod;
+  const rampSteps = c.run.ramp_periods * N;
+  // the field at the farthest receiver is steady once the end of the ramp has travelled there (at c, the fastest
+  // speed on the grid) and two more periods have passed for the near-field and top-reflection transients.
+  const farthest = Math.max(...c.receivers.ranges_m);
+  const travelSteps = Math.ceil(farthest / C0 / g.dtS);
+  const settleSteps = rampSteps + travelSteps + 2 * N;
+  return { rampSteps, settleSteps, windowSteps: c.run.dft_periods * N };
+}
+
+/** Cells, steps, memory and cell updates of a case, without solving (steps assume settling in two windows). */
+export function estimateCost(c: Case): { cells_total: number; steps: number; memory_bytes: number; cell_updates: number } {
+  const g = planGrid(c);
+  const s = schedule(c, g);
+  const steps = s.settleSteps + 2 * s.windowSteps;
+  const cells = g.nx * g.nz;
+  return { cells_total: cells, steps, memory_bytes: g.memoryBytes, cell_updates: cells * steps };
+}
+
+function impedanceWarnings(c: Case): string[] {
+  const warnings: string[] = [];
+  if (c.ground.model !== 'impedance') return warnings;
+  (c.ground.segments ?? []).forEach((s, i) => {
+    const z = groundImpedance(c.frequency_hz, s.conductivity_s_per_m, s.relative_permittivity);
+    const where = `ground.segments[${i}]`;
+    if (z.lossTangent < 1) {
+      throw new UserError(
+        `${where}: loss tangent σ/(ωε0εr) = ${z.lossTangent.toPrecision(3)} is below 1, outside the surface-impedance model's validity; use "ground": {"model": "resolved"} for this ground`,
+        'loamwave.case.impedance_invalid',
+      );
+    }
+    if (z.lossTangent < LOSS_TANGENT_WARN) {
+      warnings.push(
+        `${where}: loss tangent ${z.lossTangent.toPrecision(3)} < ${LOSS_TANGENT_WARN}: the surface-impedance model is near its validity limit; cross-check with ground model "resolved"`,
+      );
+    }
+  });
+  return warnings;
+}
+
+/** Solve one validated case. Throws UserError for cases outside the models' validity. */
+export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
+  const warnings = impedanceWarnings(c);
+  const g = planGrid(c);
+  const { nx, nz } = g;
+  const S = nz + 1;
+  const size = (nx + 1) * S;
+  const mat = buildMaterials(c, g);
+  const { rp, rm, axisFactor } = radialFactors(c, nx);
+  const chz = new Float64Array(nz);
+  for (let k = 0; k < nz; k++) chz[k] = g.dtS / (MU0 * g.dzM[k]);
+  const f: YeeFields = {
+    nx,
+    nz,
+    S,
+    ex: new Float64Array(size),
+    ez: new Float64Array(size),
+    hy: new Float64Array(size),
+    ...mat,
+    chx: g.dtS / (MU0 * g.dxM),
+    chz,
+    rp,
+    rm,
+    axisFactor,
+  };
+
+  const hx = cpmlProfile(g.pmlX, 0.5, g.pmlX, g.dxM, g.dtS, c.frequency_hz);
+  const ezp = cpmlProfile(g.pmlX, 0, g.pmlX, g.dxM, g.dtS, c.frequency_hz);
+  const hz = cpmlProfile(g.pmlTop, 0.5, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
+  const exp = cpmlProfile(g.pmlTop, 0, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
+  const pml: CpmlState = {
+    ix0: nx - g.pmlX,
+    px: g.pmlX,
+    kz0: nz - g.pmlTop,
+    pz: g.pmlTop,
+    bHx: hx.b,
+    aHx: hx.a,
+    bEz: ezp.b,
+    aEz: ezp.a,
+    bHz: hz.b,
+    aHz: hz.a,
+    bEx: exp.b,
+    aEx: exp.a,
+    psiHx: new Float64Array(g.pmlX * S),
+    psiEz: new Float64Array(g.pmlX * S),
+    psiHz: new Float64Array(nx * g.pmlTop),
+    psiEx: new Float64Array(nx * g.pmlTop),
+  };
+
+  let zrow: ImpedanceRow | undefined;
+  if (c.ground.model === 'impedance') {
+    const segs = c.ground.segments ?? [];
+    const halfR = new Float64Array(nx);
+    const lOverDt = new Float64Array(nx);
+    for (let i = 0; i < nx; i++) {
+      const x = (i + 0.5) * g.dxM;
+      let s = segs[0];
+      for (const seg of segs) if (seg.start_m <= x) s = seg;
+      const z = groundImpedance(c.frequency_hz, s.conductivity_s_per_m, s.relative_permittivity);
+      halfR[i] = z.resistanceOhm / 2;
+      lOverDt[i] = z.inductanceH / g.dtS;
+    }
+    const extrapolated = c.ground.impedance_sampling === 'extrapolated';
+    zrow = { halfR, lOverDt, wNear: extrapolated ? 1.5 : 1, wFar: extrapolated ? -0.5 : 0, hsPrev: new Float64Array(nx) };
+  }
+
+  // Source: a vertical current element filling the Ez cell on the axis (or symmetry plane) at the source height.
+  let ks = g.groundRow;
+  while (ks + 1 < nz && g.zNodeM[ks + 1] <= c.source.height_m + 1e-9) ks++;
+  const dzs = g.dzM[ks];
+  const areaM2 = c.geometry === 'axisymmetric' ? Math.PI * (g.dxM / 2) ** 2 : g.dxM;
+  // ε∂Ez/∂t = curl − J: the update adds −cb′·J, cb′ = cbEz·Δx
+  const sourceCoef = -(mat.cbEz[ks] * g.dxM) / areaM2;
+  const omega = 2 * Math.PI * c.frequency_hz;
+  const sch = schedule(c, g);
+  const rampS = sch.rampSteps * g.dtS;
+
+  const receivers = buildReceiverTaps(g, c.receivers.ranges_m, c.receivers.height_m, zrow !== undefined);
+  const allTaps: Tap[] = [];
+  const slices = receivers.map((r) => {
+    const s = { ez: [allTaps.length, r.ez.length], ex: [0, 0], hy: [0, 0] } as Record<'ez' | 'ex' | 'hy', [number, number]>;
+    allTaps.push(...r.ez);
+    s.ex = [allTaps.length, r.ex.length];
+    allTaps.push(...r.ex);
+    s.hy = [allTaps.length, r.hy.length];
+    allTaps.push(...r.hy);
+    return s;
+  });
+  const dft = new RunningDft(allTaps, g.stepsPerPeriod);
+  const fieldsByName = { ex: f.ex, ez: f.ez, hy: f.hy };
+
+  const expectedSteps = sch.settleSteps + 2 * sch.windowSteps;
+  const maxSteps = c.run.max_steps;
+  const progressEvery = Math.max(1, Math.floor(expectedSteps / 100));
+  let previous: { re: Float64Array; im: Float64Array } | undefined;
+  let current: { re: Float64Array; im: Float64Array } | undefined;
+  let change = Infinity;
+  let n = 0;
+  let settled = false;
+  for (;;) {
+    const windowEnd = n >= sch.settleSteps && (n - sch.settleSteps) % sch.windowSteps === sch.windowSteps - 1;
+    // one leapfrog step: E^n → H^{n+½} (with the ground row's E^n), H^{n+½} → E^{n+1}
+    updateH(f);
+    updateHCpml(f, pml);
+    if (zrow) applySurfaceImpedance(f, zrow);
+    updateE(f);
+    updateECpml(f, pml);
+    f.ez[ks] += sourceCoef * sourceCurrent((n + 0.5) * g.dtS, omega, rampS);
+    if (n >= sch.settleSteps) dft.accumulate(n, fieldsByName);
+    if (windowEnd) {
+      previous = current;
+      current = dft.take();
+      if (!current.re.every(Number.isFinite) || !current.im.every(Number.isFinite)) {
+        throw new SolverDivergedError(`fields became non-finite by step ${n + 1}; lower grid.courant`);
+      }
+      if (previous) {
+        change = relativeChange(previous, current, slices.map((s) => s.ez));
+        if (change < SETTLED_RELATIVE_CHANGE) {
+          settled = true;
+          n++;
+          break;
+        }
+      }
+    }
+    n++;
+    if (n >= maxSteps && windowEnd) break;
+    if (n % 256 === 0 && opts.shouldStop?.()) throw new SolveCancelledError();
+    if (opts.onProgress && n % progressEvery === 0) opts.onProgress(n / expectedSteps);
+  }
+  if (!settled) {
+    warnings.push(
+      `not settled after ${n} steps (last window-to-window change ${change.toExponential(2)}); raise run.max_steps or check the boundaries`,
+    );
+  }
+  const ph = current!;
+  const scale = targetMoment(c) / dzs; // fields were computed for a 1 A peak current over one cell of height dzs
+  const combine = (sl: [number, number]): { re: number; im: number } => {
+    let re = 0;
+    let im = 0;
+    for (let t = sl[0]; t < sl[0] + sl[1]; t++) {
+      re += allTaps[t].weight * ph.re[t];
+      im += allTaps[t].weight * ph.im[t];
+    }
+    return { re: re * scale, im: im * scale };
+  };
+  const out: ReceiverResult[] = receivers.map((r, idx) => {
+    const ez = combine(slices[idx].ez);
+    const mag = Math.hypot(ez.re, ez.im);
+    return {
+      range_m: r.rangeM,
+      height_m: r.heightM,
+      ez,
+      e_horizontal: combine(slices[idx].ex),
+      h: combine(slices[idx].hy),
+      ez_db_uv_per_m: 20 * Math.log10(mag / 1e-6),
+      ez_phase_deg: (Math.atan2(ez.im, ez.re) * 180) / Math.PI,
+    };
+  });
+  opts.onProgress?.(1);
+  return {
+    solver_version: SOLVER_VERSION,
+    geometry: c.geometry,
+    frequency_hz: c.frequency_hz,
+    receivers: out,
+    grid: {
+      cell_size_m: g.dxM,
+      time_step_s: g.dtS,
+      steps: n,
+      steps_per_period: g.stepsPerPeriod,
+      cells_range: g.nx,
+      cells_height: g.nz,
+      cells_ground: g.groundRow,
+      cells_total: g.nx * g.nz,
+      courant: g.courant,
+      memory_bytes: g.memoryBytes,
+      cell_updates: g.nx * g.nz * n,
+      settled,
+      settling_change: change,
+    },
+    warnings,
+  };
+}
+
+function relativeChange(
+  a: { re: Float64Array; im: Float64Array },
+  b: { re: Float64Array; im: Float64Array },
+  slices: Array<[number, number]>,
+): number {
+  // compare the (unweighted) tap phasors of Ez at each receiver; floor at 1e-6 of the strongest tap
+  let peak = 0;
+  for (const [s, len] of slices) for (let t = s; t < s + len; t++) peak = Math.max(peak, Math.hypot(b.re[t], b.im[t]));
+  let worst = 0;
+  for (const [s, len] of slices) {
+    for (let t = s; t < s + len; t++) {
+      const d = Math.hypot(b.re[t] - a.re[t], b.im[t] - a.im[t]);
+      const m = Math.max(Math.hypot(b.re[t], b.im[t]), 1e-6 * peak);
+      worst = Math.max(worst, d / m);
+    }
+  }
+  return worst;
+}
