@@ -1,0 +1,292 @@
+// The durable ledger of a sweep: every job, its status and its result, in one SQLite file (`ledger.sqlite`, WAL
+// journal, full sync) in the output folder. A result is in it completely or not at all (one transaction each), and
+// numbers come back bit for bit (exact JSON text). Knows storage only: nothing of queues, solvers or Parquet.
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import Database from 'better-sqlite3';
+import type { Case } from '../schemas/case.js';
+import { UserError } from '../schemas/errors.js';
+import type { JobResult } from '../schemas/result.js';
+import { toExactJson } from './exact-json.js';
+import type { ExpandedJob } from './sweep-expand.js';
+
+export const JOB_STATUSES = ['pending', 'queued', 'running', 'done', 'failed'] as const;
+export type JobStatus = (typeof JOB_STATUSES)[number];
+
+export interface LedgerJob {
+  job_id: string;
+  index: number;
+  params: Record<string, number | string>;
+  case: Case;
+  status: JobStatus;
+  /** Times the job was started (markRunning) or the count a failure reported, whichever is larger. */
+  attempts: number;
+  error: string | null;
+  queued_at_ms: number | null;
+  started_at_ms: number | null;
+  finished_at_ms: number | null;
+  /** Sampled designs: `A`, `B`, `AB_<i>` or `LHS`; null for a full factorial. */
+  design_role: string | null;
+  design_sample: number | null;
+}
+
+export interface LedgerOptions {
+  /** Milliseconds since the epoch; @defaultValue Date.now */
+  readonly nowMs?: () => number;
+  /** Fault injection for tests: called inside the result transaction after the result row is written. */
+  readonly faultInsideCommit?: (jobId: string) => void;
+}
+
+/** A result for a job id the ledger does not hold (a programming or wiring error, never the user's). */
+export class UnknownJobError extends Error {
+  constructor(jobId: string) {
+    super(`ledger: no job ${jobId}; add the job before committing its result`);
+    this.name = 'UnknownJobError';
+  }
+}
+
+export const LEDGER_FILE = 'ledger.sqlite';
+const LEDGER_FORMAT = '1';
+/** Rows fetched per page by `results()`; pages keep memory bounded and the connection free between them. */
+const RESULTS_PAGE = 256;
+
+interface JobRow {
+  job_id: string;
+  idx: number;
+  params_json: string;
+  case_json: string;
+  status: JobStatus;
+  attempts: number;
+  error: string | null;
+  queued_at_ms: number | null;
+  started_at_ms: number | null;
+  finished_at_ms: number | null;
+  design_role: string | null;
+  design_sample: number | null;
+}
+
+const SCHEMA_SQL = `
+CREATE TABLE IF NOT EXISTS meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
+CREATE TABLE IF NOT EXISTS jobs (
+  job_id TEXT PRIMARY KEY,
+  idx INTEGER NOT NULL,
+  params_json TEXT NOT NULL,
+  case_json TEXT NOT NULL,
+  status TEXT NOT NULL CHECK (status IN ('pending', 'queued', 'running', 'done', 'failed')),
+  attempts INTEGER NOT NULL DEFAULT 0,
+  error TEXT,
+  queued_at_ms INTEGER,
+  started_at_ms INTEGER,
+  finished_at_ms INTEGER,
+  design_role TEXT,
+  design_sample INTEGER
+);
+CREATE INDEX IF NOT EXISTS jobs_by_status ON jobs (status, idx);
+CREATE INDEX IF NOT EXISTS jobs_by_idx ON jobs (idx, job_id);
+CREATE TABLE IF NOT EXISTS results (
+  job_id TEXT PRIMARY KEY REFERENCES jobs (job_id),
+  result_json TEXT NOT NULL
+);
+`;
+
+export class Ledger {
+  readonly path: string;
+  private readonly db: Database.Database;
+  private readonly nowMs: () => number;
+  private readonly fault?: (jobId: string) => void;
+  private readonly stmt: ReturnType<Ledger['prepareAll']>;
+
+  private constructor(path: string, db: Database.Database, options: LedgerOptions) {
+    this.path = path;
+    this.db = db;
+    this.nowMs = options.nowMs ?? Date.now;
+    this.fault = options.faultInsideCommit;
+    this.stmt = this.prepareAll();
+  }
+
+  /** Open (or create) `<dir>/ledger.sqlite`; the folder is created if missing. */
+  static open(dir: string, options: LedgerOptions = {}): Ledger {
+    mkdirSync(dir, { recursive: true });
+    const path = join(dir, LEDGER_FILE);
+    let db: Database.Database;
+    try {
+      db = new Database(path);
+      // WAL: readers never block the single writer; FULL: a commit survives power loss (SQLite docs, PRAGMA synchronous).
+      db.pragma('journal_mode = WAL');
+      db.pragma('synchronous = FULL');
+      db.pragma('busy_timeout = 5000');
+      db.pragma('foreign_keys = ON');
+      db.exec(SCHEMA_SQL);
+    } catch (e) {
+      throw new UserError(`${path}: cannot open the ledger (${(e as Error).message}); remove or move the file`, 'loamwave.ledger.unreadable');
+    }
+    const format = db.prepare<[], { value: string }>(`SELECT value FROM meta WHERE key = 'format'`).get();
+    if (format === undefined) db.prepare(`INSERT INTO meta (key, value) VALUES ('format', ?)`).run(LEDGER_FORMAT);
+    else if (format.value !== LEDGER_FORMAT) {
+      db.close();
+      throw new UserError(
+        `${path}: ledger format ${format.value}, this loamwave reads format ${LEDGER_FORMAT}; use another --out folder`,
+        'loamwave.ledger.format',
+      );
+    }
+    return new Ledger(path, db, options);
+  }
+
+  private prepareAll() {
+    const db = this.db;
+    return {
+      insertJob: db.prepare(
+        `INSERT OR IGNORE INTO jobs (job_id, idx, params_json, case_json, status, design_role, design_sample)
+         VALUES (?, ?, ?, ?, 'pending', ?, ?)`,
+      ),
+      get: db.prepare<[string], JobRow>(`SELECT * FROM jobs WHERE job_id = ?`),
+      listAll: db.prepare<[], JobRow>(`SELECT * FROM jobs ORDER BY idx, job_id`),
+      listBy: db.prepare<[string], JobRow>(`SELECT * FROM jobs WHERE status = ? ORDER BY idx, job_id`),
+      counts: db.prepare<[], { status: JobStatus; n: number }>(`SELECT status, COUNT(*) AS n FROM jobs GROUP BY status`),
+      queued: db.prepare(`UPDATE jobs SET status = 'queued', queued_at_ms = ?, error = NULL WHERE job_id = ? AND status <> 'done'`),
+      running: db.prepare(
+        `UPDATE jobs SET status = 'running', started_at_ms = ?, attempts = attempts + 1 WHERE job_id = ? AND status <> 'done'`,
+      ),
+      failed: db.prepare(
+        `UPDATE jobs SET status = 'failed', error = ?, attempts = MAX(attempts, ?), finished_at_ms = ?
+         WHERE job_id = ? AND status <> 'done'`,
+      ),
+      insertResult: db.prepare(`INSERT OR IGNORE INTO results (job_id, result_json) VALUES (?, ?)`),
+      done: db.prepare(
+        `UPDATE jobs SET status = 'done', error = NULL, finished_at_ms = COALESCE(finished_at_ms, ?) WHERE job_id = ?`,
+      ),
+      exists: db.prepare<[string], { status: JobStatus }>(`SELECT status FROM jobs WHERE job_id = ?`),
+      reset: db.prepare(`UPDATE jobs SET status = 'pending' WHERE status = 'running'`),
+      resetQueued: db.prepare(`UPDATE jobs SET status = 'pending' WHERE status IN ('running', 'queued')`),
+      result: db.prepare<[string], { result_json: string }>(`SELECT result_json FROM results WHERE job_id = ?`),
+      resultsPage: db.prepare<[number, number, string, number], JobRow & { result_json: string }>(
+        `SELECT jobs.*, results.result_json FROM jobs JOIN results USING (job_id)
+         WHERE (jobs.idx > ?) OR (jobs.idx = ? AND jobs.job_id > ?)
+         ORDER BY jobs.idx, jobs.job_id LIMIT ?`,
+      ),
+    };
+  }
+
+  /** Add jobs not yet in the ledger (insert-or-ignore by job id, in one transaction); returns how many were new. */
+  addJobs(jobs: readonly ExpandedJob[]): number {
+    return this.db.transaction((list: readonly ExpandedJob[]) => {
+      let added = 0;
+      for (const j of list) {
+        added += this.stmt.insertJob.run(
+          j.job_id,
+          j.index,
+          toExactJson(j.params),
+          toExactJson(j.case),
+          j.design?.role ?? null,
+          j.design?.sample ?? null,
+        ).changes;
+      }
+      return added;
+    })(jobs);
+  }
+
+  get(jobId: string): LedgerJob | undefined {
+    const row = this.stmt.get.get(jobId);
+    return row ? toJob(row) : undefined;
+  }
+
+  /** Jobs in index order, all or those with one status. */
+  list(status?: JobStatus): LedgerJob[] {
+    const rows = status === undefined ? this.stmt.listAll.all() : this.stmt.listBy.all(status);
+    return rows.map(toJob);
+  }
+
+  counts(): Record<JobStatus, number> {
+    const out = Object.fromEntries(JOB_STATUSES.map((s) => [s, 0])) as Record<JobStatus, number>;
+    for (const { status, n } of this.stmt.counts.all()) out[status] = n;
+    return out;
+  }
+
+  /** Jobs handed to a queue or pool; a job already done stays done. */
+  markQueued(ids: readonly string[]): void {
+    const now = this.nowMs();
+    this.db.transaction((list: readonly string[]) => {
+      for (const id of list) this.stmt.queued.run(now, id);
+    })(ids);
+  }
+
+  /** A worker started the job: counts one attempt. */
+  markRunning(id: string): void {
+    this.stmt.running.run(this.nowMs(), id);
+  }
+
+  /**
+   * Store a result and mark its job done, in one transaction with a full sync: after a crash the result is
+   * there completely or not at all. Committing the same job again keeps the first result (the solver is
+   * deterministic, so both are the same). Throws NonFiniteNumberError for NaN/±Infinity anywhere in the result.
+   */
+  commitResult(result: JobResult): void {
+    const text = toExactJson(result);
+    this.db.transaction(() => {
+      if (this.stmt.exists.get(result.job_id) === undefined) throw new UnknownJobError(result.job_id);
+      this.stmt.insertResult.run(result.job_id, text);
+      this.fault?.(result.job_id);
+      this.stmt.done.run(this.nowMs(), result.job_id);
+    }).immediate();
+  }
+
+  /** The job failed for good (after `attempts` tries); a job already done is left done. */
+  markFailed(id: string, reason: string, attempts: number): void {
+    this.stmt.failed.run(reason, attempts, this.nowMs(), id);
+  }
+
+  /**
+   * Resume after a crash: jobs left `running` go back to `pending` (also `queued` ones, for the local pool, whose
+   * queue died with the process). Returns how many jobs were reset.
+   */
+  resetInterrupted(options: { includeQueued?: boolean } = {}): number {
+    return (options.includeQueued ? this.stmt.resetQueued : this.stmt.reset).run().changes;
+  }
+
+  /** The stored result of one job, if any. */
+  result(jobId: string): JobResult | undefined {
+    const row = this.stmt.result.get(jobId);
+    return row ? (JSON.parse(row.result_json) as JobResult) : undefined;
+  }
+
+  /**
+   * Every job with a result, in index order, fetched a page at a time (memory bounded by a page; other calls on
+   * this ledger may run between items).
+   */
+  *results(): Generator<{ job: LedgerJob; result: JobResult }, void, undefined> {
+    let idx = -1;
+    let id = '';
+    for (;;) {
+      const page = this.stmt.resultsPage.all(idx, idx, id, RESULTS_PAGE);
+      for (const row of page) {
+        yield { job: toJob(row), result: JSON.parse(row.result_json) as JobResult };
+      }
+      if (page.length < RESULTS_PAGE) return;
+      const last = page[page.length - 1];
+      idx = last.idx;
+      id = last.job_id;
+    }
+  }
+
+  /** Close the database; safe to call more than once. */
+  close(): void {
+    if (this.db.open) this.db.close();
+  }
+}
+
+function toJob(row: JobRow): LedgerJob {
+  return {
+    job_id: row.job_id,
+    index: row.idx,
+    params: JSON.parse(row.params_json) as Record<string, number | string>,
+    case: JSON.parse(row.case_json) as Case,
+    status: row.status,
+    attempts: row.attempts,
+    error: row.error,
+    queued_at_ms: row.queued_at_ms,
+    started_at_ms: row.started_at_ms,
+    finished_at_ms: row.finished_at_ms,
+    design_role: row.design_role,
+    design_sample: row.design_sample,
+  };
+}
