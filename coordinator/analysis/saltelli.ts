@@ -1,0 +1,209 @@
+// The Saltelli design for variance-based (Sobol') sensitivity indices and its estimators, with seeded bootstrap
+// intervals. Design and first-order estimator: Saltelli et al., "Variance based sensitivity analysis of model
+// output", Comput. Phys. Commun. 181(2), 2010; total-order estimator: Jansen, Comput. Phys. Commun. 117, 1999.
+import { z } from 'zod';
+import { createPrng } from './prng.js';
+import { SOBOL_MAX_DIMENSION, sobolPoints } from './sobol-sequence.js';
+import type { SensitivityRow } from './sensitivity-table.js';
+
+/**
+ * Where each run of a Saltelli design sits. Runs come in blocks of n: A (rows 0..n−1), B (n..2n−1), then A_B^i for
+ * i = 0..d−1 (rows (2+i)·n .. (3+i)·n−1), where A_B^i is A with column i taken from B. Total n·(d + 2) runs.
+ */
+export const SaltelliLayoutSchema = z.strictObject({
+  n: z.number().int().positive(),
+  d: z.number().int().positive(),
+  /** Leading Sobol' points skipped before A and B were taken. */
+  skip: z.number().int().min(0),
+  /** Seed of the random digital shift, or null for the plain sequence. */
+  seed: z.number().int().nullable(),
+});
+export type SaltelliLayout = z.infer<typeof SaltelliLayoutSchema>;
+
+export interface SaltelliDesign {
+  /** n·(d + 2) points in [0, 1)^d, in the block order of `layout`. */
+  points: Float64Array[];
+  layout: SaltelliLayout;
+}
+
+export interface SaltelliDesignOptions {
+  /** Leading points of the 2d-dimensional Sobol' sequence to skip. @defaultValue 0 */
+  readonly skip?: number;
+}
+
+/** Row index of run j (0..n−1) of block A, B or A_B^i. */
+export function saltelliRow(layout: SaltelliLayout, block: 'A' | 'B' | number, j: number): number {
+  if (block === 'A') return j;
+  if (block === 'B') return layout.n + j;
+  return (2 + block) * layout.n + j;
+}
+
+/**
+ * The Saltelli design: A and B from the two halves of one 2d-dimensional Sobol' sequence (Saltelli et al. 2010,
+ * §3), and A_B^i for each i. With `seed`, every coordinate is XORed by a seeded random shift word per dimension.
+ */
+export function saltelliDesign(d: number, n: number, seed?: number, options: SaltelliDesignOptions = {}): SaltelliDesign {
+  if (!Number.isInteger(d) || d < 1 || 2 * d > SOBOL_MAX_DIMENSION) {
+    throw new Error(`saltelliDesign: d must be an integer in [1, ${Math.floor(SOBOL_MAX_DIMENSION / 2)}] (got ${d})`);
+  }
+  if (!Number.isInteger(n) || n < 2) throw new Error(`saltelliDesign: n must be an integer >= 2 (got ${n})`);
+  const skip = options.skip ?? 0;
+  let shift: Uint32Array | undefined;
+  if (seed !== undefined) {
+    const rng = createPrng(seed);
+    shift = Uint32Array.from({ length: 2 * d }, () => rng.nextUint32());
+  }
+  const base = sobolPoints(n, 2 * d, skip, shift);
+  const points: Float64Array[] = new Array(n * (d + 2));
+  for (let j = 0; j < n; j++) {
+    const a = base[j].subarray(0, d);
+    const b = base[j].subarray(d, 2 * d);
+    points[j] = Float64Array.from(a);
+    points[n + j] = Float64Array.from(b);
+    for (let i = 0; i < d; i++) {
+      const ab = Float64Array.from(a);
+      ab[i] = b[i];
+      points[(2 + i) * n + j] = ab;
+    }
+  }
+  return { points, layout: { n, d, skip, seed: seed ?? null } };
+}
+
+export interface IndexEstimate {
+  value: number;
+  ci_low: number;
+  ci_high: number;
+}
+
+export interface SaltelliIndices {
+  /** First-order indices S_i, one per parameter. */
+  firstOrder: IndexEstimate[];
+  /** Total-order indices S_Ti, one per parameter. */
+  totalOrder: IndexEstimate[];
+  /** Variance of the output over A and B. */
+  variance: number;
+  confidence: number;
+  bootstrapResamples: number;
+}
+
+export interface SaltelliIndicesOptions {
+  /** Bootstrap resamples for the intervals. @defaultValue 500 */
+  readonly resamples?: number;
+  /** Two-sided confidence level of the percentile intervals. @defaultValue 0.95 */
+  readonly confidence?: number;
+  /** Seed of the bootstrap's generator. @defaultValue 1 */
+  readonly seed?: number;
+}
+
+/** Point estimates of S_i and S_Ti from the runs j listed in `idx` (all runs when idx is the identity). */
+function estimate(y: ArrayLike<number>, layout: SaltelliLayout, idx: ArrayLike<number>): { s1: number[]; st: number[] } {
+  const { n, d } = layout;
+  const m = idx.length;
+  // Total variance over the union of f(A) and f(B) (Saltelli et al. 2010, §4).
+  let sum = 0;
+  let sumSq = 0;
+  for (let k = 0; k < m; k++) {
+    const fa = y[idx[k]];
+    const fb = y[n + idx[k]];
+    sum += fa + fb;
+    sumSq += fa * fa + fb * fb;
+  }
+  const mean = sum / (2 * m);
+  const variance = sumSq / (2 * m) - mean * mean;
+  const s1: number[] = [];
+  const st: number[] = [];
+  for (let i = 0; i < d; i++) {
+    let first = 0;
+    let total = 0;
+    const off = (2 + i) * n;
+    for (let k = 0; k < m; k++) {
+      const j = idx[k];
+      const fa = y[j];
+      const fb = y[n + j];
+      const fab = y[off + j];
+      // V_i ≈ mean(f(B)·(f(A_B^i) − f(A))) (Saltelli et al. 2010, Table 2, eq. (b)).
+      first += fb * (fab - fa);
+      // V_Ti ≈ mean((f(A) − f(A_B^i))²)/2 (Jansen 1999; Saltelli et al. 2010, Table 2, eq. (f)).
+      total += (fa - fab) * (fa - fab);
+    }
+    s1.push(first / m / variance);
+    st.push(total / (2 * m) / variance);
+  }
+  return { s1, st };
+}
+
+/** Percentile of a sorted array, linear interpolation between order statistics (Hyndman & Fan 1996, type 7). */
+export function percentileSorted(sorted: ArrayLike<number>, q: number): number {
+  const h = (sorted.length - 1) * q;
+  const lo = Math.floor(h);
+  const hi = Math.min(lo + 1, sorted.length - 1);
+  return sorted[lo] + (h - lo) * (sorted[hi] - sorted[lo]);
+}
+
+/**
+ * S_i and S_Ti of one output from the n·(d + 2) model values `y` of a Saltelli design, with bootstrap percentile
+ * intervals (Efron & Tibshirani, "An introduction to the bootstrap", 1993, ch. 13) over the base runs j.
+ */
+export function saltelliIndices(y: ArrayLike<number>, layout: SaltelliLayout, options: SaltelliIndicesOptions = {}): SaltelliIndices {
+  const { n, d } = layout;
+  if (y.length !== n * (d + 2)) throw new Error(`saltelliIndices: expected ${n * (d + 2)} values, got ${y.length}`);
+  for (let k = 0; k < y.length; k++) if (!Number.isFinite(y[k])) throw new Error(`saltelliIndices: value ${k} is not finite`);
+  const resamples = options.resamples ?? 500;
+  const confidence = options.confidence ?? 0.95;
+  const all = Uint32Array.from({ length: n }, (_, j) => j);
+  const point = estimate(y, layout, all);
+  const rng = createPrng(options.seed ?? 1);
+  const bootS1 = Array.from({ length: d }, () => new Float64Array(resamples));
+  const bootST = Array.from({ length: d }, () => new Float64Array(resamples));
+  const idx = new Uint32Array(n);
+  for (let r = 0; r < resamples; r++) {
+    for (let k = 0; k < n; k++) idx[k] = rng.nextInt(n);
+    const e = estimate(y, layout, idx);
+    for (let i = 0; i < d; i++) {
+      bootS1[i][r] = e.s1[i];
+      bootST[i][r] = e.st[i];
+    }
+  }
+  const lowQ = (1 - confidence) / 2;
+  const interval = (value: number, boot: Float64Array): IndexEstimate => {
+    const sorted = Float64Array.from(boot).sort();
+    return resamples > 0
+      ? { value, ci_low: percentileSorted(sorted, lowQ), ci_high: percentileSorted(sorted, 1 - lowQ) }
+      : { value, ci_low: value, ci_high: value };
+  };
+  let mean = 0;
+  for (let k = 0; k < 2 * n; k++) mean += y[k];
+  mean /= 2 * n;
+  let variance = 0;
+  for (let k = 0; k < 2 * n; k++) variance += (y[k] - mean) ** 2;
+  variance /= 2 * n;
+  return {
+    firstOrder: point.s1.map((v, i) => interval(v, bootS1[i])),
+    totalOrder: point.st.map((v, i) => interval(v, bootST[i])),
+    variance,
+    confidence,
+    bootstrapResamples: resamples,
+  };
+}
+
+/** The long-form table rows of one output's Sobol' indices. */
+export function saltelliRows(output: string, parameters: readonly string[], indices: SaltelliIndices, n: number): SensitivityRow[] {
+  const rows: SensitivityRow[] = [];
+  const push = (measure: 'first_order' | 'total_order', list: IndexEstimate[]) =>
+    list.forEach((e, i) =>
+      rows.push({
+        output,
+        parameter: parameters[i],
+        measure,
+        value: e.value,
+        ci_low: e.ci_low,
+        ci_high: e.ci_high,
+        confidence: indices.confidence,
+        samples: n,
+        r_squared: null,
+      }),
+    );
+  push('first_order', indices.firstOrder);
+  push('total_order', indices.totalOrder);
+  return rows;
+}
