@@ -2,6 +2,7 @@
 import { describe, expect, it } from 'vitest';
 import {
   apparentOrder,
+  ConvergenceRowSchema,
   convergenceTable,
   gridConvergence,
   unwrapAgainst,
@@ -99,16 +100,18 @@ describe('convergence rows for a sweep', () => {
   runs.push(...[10, 20].map((cpw) => ({ params: { frequency_hz: 60000 }, resolution: cpw, receivers: runs[0].receivers })));
   const rows = convergenceTable(runs, { axis: 'cells_per_wavelength', toleranceDb: 0.1, tolerancePhaseDeg: 0.5 });
 
-  it('when runs differ only in resolution then each group, receiver and output gets one row', () => {
+  it('when runs differ only in resolution then each group, receiver and output gets one schema-valid row', () => {
     // 2 frequency groups × 2 receivers × 2 outputs; the two-level group is left out.
     expect(rows).toHaveLength(8);
+    for (const row of rows) expect(ConvergenceRowSchema.parse(row)).toEqual(row);
     expect(new Set(rows.map((r) => r.group))).toEqual(new Set(['{"frequency_hz":20000}', '{"frequency_hz":40000}']));
   });
 
   it('when the error goes as 1/cpw² then the apparent order is 2 and the extrapolation removes it', () => {
     for (const row of rows) {
       expect(row.apparent_order).toBeCloseTo(2, 6);
-      expect(row.resolution_values).toEqual([28, 20, 14, 10]);
+      expect(JSON.parse(row.levels_json).map((l: number[]) => l[0])).toEqual([28, 20, 14, 10]);
+      expect([row.resolution1, row.resolution2, row.resolution3, row.levels]).toEqual([28, 20, 14, 4]);
       const exact =
         row.output === 'ez_db_uv_per_m'
           ? 60 - 0.02 * (row.range_m / 1000)
@@ -121,7 +124,8 @@ describe('convergence rows for a sweep', () => {
 
   it('when the phase wraps through ±180° between levels then it is unwrapped against the finest level', () => {
     const phase = rows.find((r) => r.output === 'ez_phase_deg' && r.group === '{"frequency_hz":20000}')!;
-    const spread = Math.max(...phase.output_values) - Math.min(...phase.output_values);
+    const values = JSON.parse(phase.levels_json).map((l: number[]) => l[1]);
+    const spread = Math.max(...values) - Math.min(...values);
     expect(spread).toBeLessThan(1);
     expect(unwrapAgainst(179, -179)).toBe(181);
   });

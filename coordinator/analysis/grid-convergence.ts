@@ -193,7 +193,7 @@ export type ResolutionAxis = z.infer<typeof ResolutionAxisSchema>;
 export const ConvergenceOutputSchema = z.enum(['ez_db_uv_per_m', 'ez_phase_deg']);
 export type ConvergenceOutput = z.infer<typeof ConvergenceOutputSchema>;
 
-/** One row of convergence.parquet: one group of otherwise-equal runs, one receiver, one output. */
+/** One row of convergence.parquet: one group of otherwise-equal runs, one receiver, one output. Flat columns only. */
 export const ConvergenceRowSchema = z.strictObject({
   /** The other varied parameters of the group, as canonical JSON (`{}` when only the resolution varies). */
   group: z.string(),
@@ -201,9 +201,17 @@ export const ConvergenceRowSchema = z.strictObject({
   range_m: z.number(),
   height_m: z.number(),
   resolution_axis: ResolutionAxisSchema,
-  /** Every resolution value of the group, finest first, and the output at each (phase unwrapped against the finest). */
-  resolution_values: z.array(z.number()),
-  output_values: z.array(z.number()),
+  /** Resolution values of the three finest levels (the ones analysed), finest first. */
+  resolution1: z.number(),
+  resolution2: z.number(),
+  resolution3: z.number(),
+  /** Number of resolution levels of the group (three or more). */
+  levels: z.number().int(),
+  /**
+   * Every level as JSON `[[resolution, value], …]`, finest first (phase unwrapped against the finest): a string so
+   * that the table stays flat for Parquet.
+   */
+  levels_json: z.string(),
   r21: z.number(),
   r32: z.number(),
   phi1: z.number(),
@@ -275,6 +283,7 @@ export function convergenceTable(runs: readonly ConvergenceRun[], options: Conve
     groups.set(key, list);
   }
   const rows: ConvergenceRow[] = [];
+  const orNull = (v: number) => (Number.isFinite(v) ? v : null);
   for (const [group, list] of [...groups.entries()].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))) {
     // One run per resolution level, finest first.
     const byLevel = new Map<number, ConvergenceRun>();
@@ -296,15 +305,17 @@ export function convergenceTable(runs: readonly ConvergenceRun[], options: Conve
           ordered.map((run, k) => ({ h: cellSizeOf(options.axis, run.resolution), phi: values[k] })),
           { tolerance },
         );
-        const orNull = (v: number) => (Number.isFinite(v) ? v : null);
         rows.push({
           group,
           output,
           range_m: receiver.range_m,
           height_m: receiver.height_m,
           resolution_axis: options.axis,
-          resolution_values: ordered.map((run) => run.resolution),
-          output_values: values,
+          resolution1: ordered[0].resolution,
+          resolution2: ordered[1].resolution,
+          resolution3: ordered[2].resolution,
+          levels: ordered.length,
+          levels_json: JSON.stringify(ordered.map((run, k) => [run.resolution, values[k]])),
           r21: result.r21,
           r32: result.r32,
           phi1: result.phi1,
