@@ -1,8 +1,9 @@
 // Unit-cube rows of the sampled sweep designs, each with its role in the design: a thin adapter over the analysis
-// room's Latin hypercube and Saltelli samplers (wired in as soon as they are committed; until then sampled
-// designs are refused with a clear message). Pure and deterministic for a given seed.
-import { UserError } from '../schemas/errors.js';
+// room's Latin hypercube and Saltelli samplers, so that the expansion and the sensitivity estimators agree on
+// one layout. Pure and deterministic for a given seed.
+import { latinHypercube } from './analysis/latin-hypercube.js';
 import { SOBOL_MAX_DIMENSION } from './analysis/sobol-sequence.js';
+import { saltelliDesign } from './analysis/saltelli.js';
 
 export interface UnitRow {
   /** Coordinates in [0, 1)^d, one per vary path in the order written. */
@@ -16,10 +17,17 @@ export interface UnitRow {
 /** The largest number of varied parameters a Saltelli design supports (its Sobol' sequence has 2d dimensions). */
 export const SALTELLI_MAX_PARAMETERS = Math.floor(SOBOL_MAX_DIMENSION / 2);
 
-export function latinHypercubeUnit(_n: number, _d: number, _seed: number): UnitRow[] {
-  throw new UserError('design.kind: latin_hypercube is not available in this build yet; use full_factorial');
+/** n Latin hypercube rows in d dimensions (McKay, Beckman & Conover, Technometrics 21(2), 1979). */
+export function latinHypercubeUnit(n: number, d: number, seed: number): UnitRow[] {
+  return latinHypercube(n, d, seed).map((u, sample) => ({ u, role: 'LHS', sample }));
 }
 
-export function saltelliUnit(_d: number, _n: number, _seed: number): UnitRow[] {
-  throw new UserError('design.kind: saltelli is not available in this build yet; use full_factorial');
+/** n·(d + 2) Saltelli rows in block order A, B, AB_0 … AB_{d−1} (Saltelli et al., Comput. Phys. Commun. 181(2), 2010). */
+export function saltelliUnit(d: number, n: number, seed: number): UnitRow[] {
+  const { points } = saltelliDesign(d, n, seed);
+  return points.map((u, row) => {
+    const block = Math.floor(row / n);
+    const role = block === 0 ? 'A' : block === 1 ? 'B' : `AB_${block - 2}`;
+    return { u, role, sample: row % n };
+  });
 }
