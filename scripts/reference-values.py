@@ -59,3 +59,14 @@ print("// bessel: [x, J0, J1, Y0, Y1]")
 for x in ["1e-3", "0.1", "1", "2.5", "5", "8", "12", "17.5", "24.9", "25.1", "40", "100", "1000"]:
     xx = mp.mpf(x)
     print(f"  [{x}, {fmt(mp.besselj(0, xx))}, {fmt(mp.besselj(1, xx))}, {fmt(mp.bessely(0, xx))}, {fmt(mp.bessely(1, xx))}],")
+
+print("// norton case 100 kHz, 5e-4 S/m, eps_r 10, 100 km: [Re F, Im F] grazing, then surface-impedance")
+C0 = mp.mpf(299792458)
+MU0 = 4e-7 * mp.pi
+EPS0 = 1 / (MU0 * C0 ** 2)
+f, s, er, d = mp.mpf(100e3), mp.mpf(5e-4), mp.mpf(10), mp.mpf(100e3)
+epsc = er - 1j * s / (2 * mp.pi * f * EPS0)
+k = 2 * mp.pi * f / C0
+for D in [mp.sqrt(epsc - 1) / epsc, 1 / mp.sqrt(epsc)]:
+    W = -1j * k * d * D ** 2 / 2
+    print(f"  {cplx(norton_f(W))[1:-1]}, // w = {cplx(W)}")
