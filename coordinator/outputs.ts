@@ -1,0 +1,257 @@
+// Merges a sweep's ledger into its output folder: `runs.parquet` (one row per job), `fields/` (one row per job and
+// receiver, Hive-partitioned as `part=<n>` by blocks of jobs) and a copy of the sweep file. Everything is written
+// under a staging folder and renamed into place at the end, so a crash never leaves half a table; rows stream
+// from the ledger, so memory is bounded by a row group, not by the sweep.
+import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Sweep } from '../schemas/sweep.js';
+import type { JobResult } from '../schemas/result.js';
+import type { Ledger, LedgerJob } from './ledger.js';
+import { columnNameFor, ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet-table.js';
+import { expandSweep, type ExpandedJob } from './sweep-expand.js';
+
+export interface OutputOptions {
+  /** The sweep's jobs if already expanded (saves expanding again). */
+  readonly jobs?: readonly ExpandedJob[];
+  /** Largest number of rows in one `fields/part=<n>/` file; sets how many jobs share a partition. @defaultValue 250000 */
+  readonly fieldRowsPerFile?: number;
+  /** Rows per Parquet row group (the memory bound). @defaultValue 8192 */
+  readonly rowGroupRows?: number;
+}
+
+export interface OutputSummary {
+  runs: number;
+  fieldRows: number;
+  /** Jobs per `part=<n>` partition of `fields/`. */
+  jobsPerPart: number;
+  parts: number;
+}
+
+/** File names inside the output folder. */
+export const OUTPUT_FILES = { runs: 'runs.parquet', fields: 'fields', sweep: 'sweep' } as const;
+const STAGING_PREFIX = '.outputs-staging-';
+/** Default rows per fields file: about five seconds of parquetjs-lite writing here (~19 s per 10^6 rows × 10 columns). */
+const FIELD_ROWS_PER_FILE = 250_000;
+
+/** The column of one varied parameter: DOUBLE when every value is a number, else UTF8. */
+export function paramColumns(jobs: readonly ExpandedJob[], sweep: Sweep): Array<ColumnSpec & { path: string }> {
+  return Object.keys(sweep.vary).map((path) => ({
+    path,
+    name: columnNameFor(path),
+    type: jobs.every((j) => typeof j.params[path] === 'number') ? 'DOUBLE' : 'UTF8',
+  }));
+}
+
+const RUN_COLUMNS: ColumnSpec[] = [
+  { name: 'design_role', type: 'UTF8' },
+  { name: 'design_sample', type: 'INT64' },
+  { name: 'cell_size_m', type: 'DOUBLE' },
+  { name: 'time_step_s', type: 'DOUBLE' },
+  { name: 'steps', type: 'INT64' },
+  { name: 'steps_per_period', type: 'INT64' },
+  { name: 'cells_total', type: 'INT64' },
+  { name: 'memory_bytes', type: 'INT64' },
+  // Cell updates can pass 2^53 in principle; DOUBLE keeps it as the solver reports it.
+  { name: 'cell_updates', type: 'DOUBLE' },
+  { name: 'settled', type: 'BOOLEAN' },
+  { name: 'settling_change', type: 'DOUBLE' },
+  { name: 'wall_time_s', type: 'DOUBLE' },
+  { name: 'solver_version', type: 'UTF8' },
+  { name: 'warnings', type: 'UTF8' },
+  { name: 'error', type: 'UTF8' },
+  { name: 'attempts', type: 'INT64' },
+  { name: 'queued_at_ms', type: 'INT64' },
+  { name: 'started_at_ms', type: 'INT64' },
+  { name: 'finished_at_ms', type: 'INT64' },
+];
+
+const FIELD_COLUMNS: ColumnSpec[] = [
+  { name: 'range_m', type: 'DOUBLE' },
+  { name: 'height_m', type: 'DOUBLE' },
+  { name: 'ez_re', type: 'DOUBLE' },
+  { name: 'ez_im', type: 'DOUBLE' },
+  { name: 'e_horizontal_re', type: 'DOUBLE' },
+  { name: 'e_horizontal_im', type: 'DOUBLE' },
+  { name: 'h_re', type: 'DOUBLE' },
+  { name: 'h_im', type: 'DOUBLE' },
+  { name: 'ez_db_uv_per_m', type: 'DOUBLE' },
+  { name: 'ez_phase_deg', type: 'DOUBLE' },
+];
+
+/** Columns of runs.parquet, in order. */
+export function runColumns(params: readonly ColumnSpec[]): ColumnSpec[] {
+  return [
+    { name: 'job_id', type: 'UTF8' },
+    { name: 'index', type: 'INT64' },
+    { name: 'status', type: 'UTF8' },
+    ...params.map(({ name, type }) => ({ name, type })),
+    ...RUN_COLUMNS,
+  ];
+}
+
+/** Columns of the fields/ files, in order (the Hive key `part` lives in the folder name, not in the files). */
+export function fieldColumns(params: readonly ColumnSpec[]): ColumnSpec[] {
+  return [
+    { name: 'job_id', type: 'UTF8' },
+    { name: 'index', type: 'INT64' },
+    ...FIELD_COLUMNS,
+    ...params.map(({ name, type }) => ({ name, type })),
+  ];
+}
+
+/** Jobs per `part=<n>` partition so that no file holds more than `rowsPerFile` rows. */
+export function jobsPerPartFor(jobs: readonly ExpandedJob[], rowsPerFile: number): number {
+  const receivers = jobs.reduce((m, j) => Math.max(m, j.case.receivers.ranges_m.length), 1);
+  return Math.max(1, Math.floor(rowsPerFile / receivers));
+}
+
+function paramCells(job: ExpandedJob, params: ReadonlyArray<ColumnSpec & { path: string }>): Record<string, CellValue> {
+  const out: Record<string, CellValue> = {};
+  for (const p of params) {
+    const v = job.params[p.path];
+    out[p.name] = p.type === 'UTF8' && v !== undefined ? String(v) : v;
+  }
+  return out;
+}
+
+function runRow(job: ExpandedJob, row: LedgerJob | undefined, result: JobResult | undefined, params: ReadonlyArray<ColumnSpec & { path: string }>): Record<string, CellValue> {
+  const g = result?.grid;
+  return {
+    job_id: job.job_id,
+    index: job.index,
+    status: row?.status ?? 'pending',
+    ...paramCells(job, params),
+    design_role: job.design?.role,
+    design_sample: job.design?.sample,
+    cell_size_m: g?.cell_size_m,
+    time_step_s: g?.time_step_s,
+    steps: g?.steps,
+    steps_per_period: g?.steps_per_period,
+    cells_total: g?.cells_total,
+    memory_bytes: g?.memory_bytes,
+    cell_updates: g?.cell_updates,
+    settled: g?.settled,
+    settling_change: g?.settling_change,
+    wall_time_s: result?.wall_time_s,
+    solver_version: result?.solver_version,
+    warnings: result ? result.warnings.join('; ') : undefined,
+    error: row?.error,
+    attempts: row?.attempts,
+    queued_at_ms: row?.queued_at_ms,
+    started_at_ms: row?.started_at_ms,
+    finished_at_ms: row?.finished_at_ms,
+  };
+}
+
+/** The sweep copy's file name: `sweep.json` when the text is JSON, else `sweep.yaml`. */
+export function sweepCopyName(sweepText: string): string {
+  try {
+    JSON.parse(sweepText);
+    return `${OUTPUT_FILES.sweep}.json`;
+  } catch {
+    return `${OUTPUT_FILES.sweep}.yaml`;
+  }
+}
+
+/**
+ * Write runs.parquet, fields/ and the sweep copy for the jobs of `sweep` (jobs of other sweeps that share the
+ * ledger are left out). Each table is complete or absent: written under a staging folder, then renamed.
+ */
+export async function writeOutputs(
+  ledger: Ledger,
+  sweep: Sweep,
+  sweepText: string,
+  outDir: string,
+  options: OutputOptions = {},
+): Promise<OutputSummary> {
+  const jobs = options.jobs ?? expandSweep(sweep, sweep.name);
+  const params = paramColumns(jobs, sweep);
+  const rowGroupRows = options.rowGroupRows ?? 8192;
+  mkdirSync(outDir, { recursive: true });
+  removeStaleStaging(outDir);
+  const staging = join(outDir, `${STAGING_PREFIX}${process.pid}-${Date.now().toString(36)}`);
+  mkdirSync(staging);
+  try {
+    // runs.parquet: every job of the sweep, in expansion order, with whatever the ledger knows of it.
+    const runs = await ParquetTableWriter.open(join(staging, OUTPUT_FILES.runs), runColumns(params), { rowGroupRows });
+    for (const job of jobs) {
+      const row = ledger.get(job.job_id);
+      const result = row?.status === 'done' ? ledger.result(job.job_id) : undefined;
+      await runs.append(runRow(job, row, result, params));
+    }
+    await runs.close();
+
+    // fields/part=<n>/: receivers of done jobs, streamed from the ledger; one open writer per partition met.
+    const byId = new Map(jobs.map((j) => [j.job_id, j]));
+    const jobsPerPart = jobsPerPartFor(jobs, options.fieldRowsPerFile ?? FIELD_ROWS_PER_FILE);
+    const fieldsDir = join(staging, OUTPUT_FILES.fields);
+    mkdirSync(fieldsDir);
+    const writers = new Map<number, ParquetTableWriter>();
+    const columns = fieldColumns(params);
+    let fieldRows = 0;
+    try {
+      for (const { job: row, result } of ledger.results()) {
+        const job = byId.get(row.job_id);
+        if (!job) continue;
+        const part = Math.floor(job.index / jobsPerPart);
+        let w = writers.get(part);
+        if (!w) {
+          const dir = join(fieldsDir, `part=${part}`);
+          mkdirSync(dir);
+          w = await ParquetTableWriter.open(join(dir, 'data.parquet'), columns, { rowGroupRows });
+          writers.set(part, w);
+        }
+        const p = paramCells(job, params);
+        for (const r of result.receivers) {
+          await w.append({
+            job_id: job.job_id,
+            index: job.index,
+            range_m: r.range_m,
+            height_m: r.height_m,
+            ez_re: r.ez.re,
+            ez_im: r.ez.im,
+            e_horizontal_re: r.e_horizontal.re,
+            e_horizontal_im: r.e_horizontal.im,
+            h_re: r.h.re,
+            h_im: r.h.im,
+            ez_db_uv_per_m: r.ez_db_uv_per_m,
+            ez_phase_deg: r.ez_phase_deg,
+            ...p,
+          });
+          fieldRows++;
+        }
+      }
+      if (writers.size === 0) {
+        // No results yet: one empty partition keeps `read_parquet('fields/**/*.parquet')` valid (zero rows).
+        mkdirSync(join(fieldsDir, 'part=0'));
+        writers.set(0, await ParquetTableWriter.open(join(fieldsDir, 'part=0', 'data.parquet'), columns, { rowGroupRows }));
+      }
+    } finally {
+      for (const w of writers.values()) await w.close();
+    }
+
+    writeFileSync(join(staging, sweepCopyName(sweepText)), sweepText);
+    publish(staging, outDir, [OUTPUT_FILES.runs, sweepCopyName(sweepText)], OUTPUT_FILES.fields);
+    return { runs: jobs.length, fieldRows, jobsPerPart, parts: writers.size };
+  } finally {
+    rmSync(staging, { recursive: true, force: true });
+  }
+}
+
+/** Rename finished files over the old ones (atomic per file), then swap the fields/ folder in. */
+function publish(staging: string, outDir: string, files: readonly string[], folder: string): void {
+  for (const f of files) renameSync(join(staging, f), join(outDir, f));
+  const target = join(outDir, folder);
+  const old = join(staging, `${folder}.old`);
+  // A folder cannot be renamed over a non-empty one: move the old aside first (a crash between the two renames
+  // leaves no fields/ at all, never a mixture), then remove it with the staging folder.
+  if (existsSync(target)) renameSync(target, old);
+  renameSync(join(staging, folder), target);
+}
+
+/** Staging folders left by a crashed writer hold nothing anyone reads: remove them. */
+function removeStaleStaging(outDir: string): void {
+  for (const name of readdirSync(outDir)) {
+    if (name.startsWith(STAGING_PREFIX)) rmSync(join(outDir, name), { recursive: true, force: true });
+  }
+}
