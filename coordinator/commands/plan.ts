@@ -1,0 +1,130 @@
+// `loamwave plan SWEEP`: validate a sweep, count its jobs and duplicates, and estimate cells, steps, memory,
+// core-hours and the wall time on N workers before anything runs; refuse a sweep whose largest job exceeds the
+// memory cap. Also registers the sweep file's JSON Schema for `loamwave schema sweep`.
+import { availableParallelism } from 'node:os';
+import { basename } from 'node:path';
+import type { Command } from 'commander';
+import { UserError } from '../../schemas/errors.js';
+import { sweepJsonSchema } from '../../schemas/sweep.js';
+import { defaultMemoryCapBytes } from '../../worker/run-case.js';
+import { kernelSpeed } from '../kernel-speed.js';
+import { expandSweepDetailed } from '../sweep-expand.js';
+import { loadSweep } from '../sweep-file.js';
+import { describeJob, planSweep, type SweepPlan } from '../sweep-plan.js';
+import { addSchema } from './schema.js';
+
+const GIB = 1024 ** 3;
+/** Jobs listed in the readable table; `--json` lists all. */
+const TABLE_JOBS = 12;
+
+interface PlanOptions {
+  json?: boolean;
+  workers?: string;
+  maxMemoryGib?: string;
+  remeasure?: boolean;
+}
+
+export function registerPlan(program: Command): void {
+  addSchema('sweep', sweepJsonSchema);
+  program
+    .command('plan')
+    .description('validate a sweep and estimate its jobs, memory, core-hours and wall time before running it')
+    .argument('<sweep>', 'sweep file (.yaml or .json)')
+    .option('--json', 'print the plan as JSON (every job listed)')
+    .option('--workers <n>', 'workers the sweep will run on, for the wall-time estimate (default: cores here)')
+    .option('--max-memory-gib <g>', 'largest memory one job may need, GiB (default: 70 % of this machine\'s memory)')
+    .option('--remeasure', 'measure the solver speed on this machine again instead of using the cached value')
+    .action((sweepPath: string, opts: PlanOptions) => {
+      const workers = parseWorkers(opts.workers);
+      const capBytes = opts.maxMemoryGib === undefined ? defaultMemoryCapBytes(1) : parseGib(opts.maxMemoryGib) * GIB;
+      const { sweep, path } = loadSweep(sweepPath);
+      const source = basename(path);
+      const expansion = expandSweepDetailed(sweep, source);
+      const speed = kernelSpeed({ remeasure: opts.remeasure });
+      const plan = planSweep(expansion, workers, speed.cell_updates_per_s, capBytes);
+      if (opts.json) {
+        const out = {
+          sweep: sweep.name,
+          design: sweep.design.kind,
+          resolution_axis: sweep.resolution_axis ?? null,
+          kernel: speed,
+          ...plan,
+          duplicate_points: expansion.duplicates,
+        };
+        process.stdout.write(JSON.stringify(out, null, 2) + '\n');
+      } else {
+        process.stdout.write(renderPlan(sweep.name, sweep.design.kind, sweep.resolution_axis, plan, speed.cached));
+      }
+      if (!plan.fits) {
+        const big = plan.per_job.find((p) => p.index === plan.largest_memory_job)!;
+        throw new UserError(
+          `${source}: ${describeJob(big)} needs ${gib(big.memory_bytes)} GiB, more than the cap of ${gib(capBytes)} GiB; ` +
+            'coarsen grid.cells_per_wavelength, shrink the domain, or raise --max-memory-gib',
+          'loamwave.plan.too_large',
+        );
+      }
+    });
+}
+
+function parseWorkers(text: string | undefined): number {
+  if (text === undefined) return availableParallelism();
+  const n = Number(text);
+  if (!Number.isInteger(n) || n < 1) throw new UserError(`plan: --workers must be a whole number >= 1 (got "${text}")`);
+  return n;
+}
+
+function parseGib(text: string): number {
+  const g = Number(text);
+  if (!Number.isFinite(g) || g <= 0) throw new UserError(`plan: --max-memory-gib must be a number > 0, in GiB (got "${text}")`);
+  return g;
+}
+
+function gib(bytes: number): string {
+  return (bytes / GIB).toPrecision(3);
+}
+
+/** 1 234 567 → "1.23 M"; small counts as they are. */
+function count(n: number): string {
+  if (n >= 1e9) return `${(n / 1e9).toPrecision(3)} G`;
+  if (n >= 1e6) return `${(n / 1e6).toPrecision(3)} M`;
+  if (n >= 1e4) return `${(n / 1e3).toPrecision(3)} k`;
+  return String(n);
+}
+
+function bytes(b: number): string {
+  if (b >= GIB) return `${(b / GIB).toPrecision(3)} GiB`;
+  return `${(b / 1024 ** 2).toPrecision(3)} MiB`;
+}
+
+/** Hours as "2 h 05 min", "12 min", "40 s". */
+export function duration(hours: number): string {
+  const s = hours * 3600;
+  if (s < 60) return `${s.toPrecision(2)} s`;
+  if (s < 3600) return `${Math.round(s / 60)} min`;
+  const h = Math.floor(s / 3600);
+  return `${h} h ${String(Math.round((s - h * 3600) / 60)).padStart(2, '0')} min`;
+}
+
+function renderPlan(name: string, design: string, axis: string | undefined, p: SweepPlan, cached: boolean): string {
+  const lines: string[] = [];
+  const dup = p.duplicates > 0 ? `, ${p.duplicates} duplicate point(s) collapsed into earlier jobs` : ', no duplicates';
+  lines.push(`sweep ${name}: ${p.design_points} design point(s), ${p.jobs} job(s)${dup}`);
+  lines.push(`design ${design}${axis ? `; resolution axis ${axis}` : ''}`);
+  lines.push('');
+  const shown = [...p.per_job].sort((a, b) => b.cell_updates - a.cell_updates || a.index - b.index).slice(0, TABLE_JOBS);
+  const rows = [['job', 'cells', 'steps', 'memory', 'core-h', 'parameters']];
+  for (const j of shown) {
+    rows.push([String(j.index), count(j.cells_total), count(j.steps), bytes(j.memory_bytes), j.core_hours.toPrecision(2), describeJob(j).replace(/^job \d+ \((.*)\)$/, '$1')]);
+  }
+  const widths = rows[0].map((_, c) => Math.max(...rows.map((r) => r[c].length)));
+  for (const r of rows) lines.push(r.map((cell, c) => (c === r.length - 1 ? cell : cell.padStart(widths[c]))).join('  '));
+  if (p.jobs > shown.length) lines.push(`… and ${p.jobs - shown.length} more (largest first; --json lists every job)`);
+  lines.push('');
+  const speedNote = cached ? 'cached measurement on this machine' : 'measured now on this machine';
+  lines.push(`kernel speed ${count(p.cell_updates_per_s)} cell updates/s per worker (${speedNote}; large grids may run slower)`);
+  lines.push(`total ${count(p.total_cell_updates)} cell updates ≈ ${p.total_core_hours.toPrecision(3)} core-hours`);
+  lines.push(`wall time on ${p.workers} worker(s), longest first: ≈ ${duration(p.wall_hours)}`);
+  const verdict = p.fits ? 'within' : 'OVER';
+  lines.push(`largest job needs ${bytes(p.largest_memory_bytes)} (job ${p.largest_memory_job ?? '-'}): ${verdict} the cap of ${bytes(p.memory_cap_bytes)}`);
+  return lines.join('\n') + '\n';
+}
