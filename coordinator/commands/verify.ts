@@ -1,0 +1,31 @@
+// `loamwave verify [--json]`: run the published-reference checks on small cases and print a table;
+// exit code 1 when any check fails.
+import type { Command } from 'commander';
+import { referenceChecks, type CheckOutcome } from '../../solver/verify.js';
+
+export function registerVerify(program: Command): void {
+  program
+    .command('verify')
+    .description('run the solver against published references (small cases) and print check, source, expected, got, tolerance, pass')
+    .option('--json', 'print the outcomes as JSON')
+    .option('--only <ids>', 'comma-separated check ids to run')
+    .action((opts: { json?: boolean; only?: string }) => {
+      const wanted = opts.only?.split(',').map((s) => s.trim());
+      const outcomes: CheckOutcome[] = [];
+      for (const check of referenceChecks()) {
+        if (wanted && !wanted.includes(check.id)) continue;
+        if (!opts.json) process.stderr.write(`verify: ${check.id}…\n`);
+        outcomes.push(...check.run());
+      }
+      const failed = outcomes.filter((o) => !o.pass).length;
+      if (opts.json) {
+        process.stdout.write(JSON.stringify(outcomes.map(({ check, source, expected, got, tolerance, pass }) => ({ check, source, expected, got, tolerance, pass })), null, 2) + '\n');
+      } else {
+        for (const o of outcomes) {
+          process.stdout.write(`${o.pass ? 'pass' : 'FAIL'}  ${o.check}\n      expected ${o.expected}  got ${o.got}  tolerance ${o.tolerance}\n      source: ${o.source}\n`);
+        }
+        process.stdout.write(`${outcomes.length - failed} passed, ${failed} failed\n`);
+      }
+      if (failed > 0) process.exitCode = 1;
+    });
+}

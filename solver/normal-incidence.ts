@@ -1,0 +1,147 @@
+// A one-column run of the same kernels: a plane wave at normal incidence on the ground (or on the top absorbing
+// layer), decomposed into incident and reflected waves from two probe rows. Used to check the ground models
+// against the exact Fresnel coefficient and to measure the absorbing layer's reflection.
+import type { Case } from '../schemas/case.js';
+import { C0, MU0 } from './constants.js';
+import { cpmlProfile } from './cpml.js';
+import { applySurfaceImpedance, updateE, updateECpml, updateH, updateHCpml, type CpmlState, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
+import { buildMaterials, planGrid } from './grid.js';
+import { RunningDft, type Tap } from './receivers.js';
+import { sourceCurrent } from './source.js';
+import { groundImpedance } from './surface-impedance.js';
+
+export interface NormalIncidenceResult {
+  /** Reflection of the ground, E_reflected/E_incident at z = 0 (e^{jωt}). */
+  groundReflection: { re: number; im: number };
+  /** |E_down/E_up| just above the source: the top layer's reflection, as a magnitude. */
+  topReflectionMagnitude: number;
+  /** Phase velocity of the upward wave over the source, measured between two rows, as a fraction of c. */
+  measuredPhaseVelocityRatio: number;
+  dzM: number;
+  dtS: number;
+  stepsPerPeriod: number;
+}
+
+/** Numerical wavenumber of the 1-D Yee scheme: sin(ωΔt/2)/(cΔt) = sin(k̃Δz/2)/Δz (Taflove & Hagness, ch. 4). */
+export function yee1dWavenumber(omega: number, dtS: number, dzM: number): number {
+  return (2 / dzM) * Math.asin((dzM / (C0 * dtS)) * Math.sin((omega * dtS) / 2));
+}
+
+/** Split phasors at heights z1, z2 into A·e^{+jk̃z} (downward) and B·e^{−jk̃z} (upward); returns B/A and |A|, |B|. */
+function decompose(e1: { re: number; im: number }, e2: { re: number; im: number }, k: number, z1: number, z2: number) {
+  // [e^{jkz1} e^{-jkz1}; e^{jkz2} e^{-jkz2}] [A; B] = [e1; e2]
+  const p = (th: number) => ({ re: Math.cos(th), im: Math.sin(th) });
+  const mul = (a: { re: number; im: number }, b: { re: number; im: number }) => ({ re: a.re * b.re - a.im * b.im, im: a.re * b.im + a.im * b.re });
+  const sub = (a: { re: number; im: number }, b: { re: number; im: number }) => ({ re: a.re - b.re, im: a.im - b.im });
+  const div = (a: { re: number; im: number }, b: { re: number; im: number }) => {
+    const d = b.re * b.re + b.im * b.im;
+    return { re: (a.re * b.re + a.im * b.im) / d, im: (a.im * b.re - a.re * b.im) / d };
+  };
+  const a11 = p(k * z1);
+  const a12 = p(-k * z1);
+  const a21 = p(k * z2);
+  const a22 = p(-k * z2);
+  const det = sub(mul(a11, a22), mul(a12, a21));
+  const A = div(sub(mul(e1, a22), mul(a12, e2)), det);
+  const B = div(sub(mul(a11, e2), mul(a21, e1)), det);
+  return { down: A, up: B };
+}
+
+/** Wavenumber of an upward wave from its phasors at two heights Δz apart: the phase falls by k̃·Δz (e^{jωt}). */
+function measuredWavenumber(lower: { re: number; im: number }, upper: { re: number; im: number }, dzM: number): number {
+  let dphi = Math.atan2(lower.im, lower.re) - Math.atan2(upper.im, upper.re);
+  while (dphi < 0) dphi += 2 * Math.PI;
+  return dphi / dzM;
+}
+
+/** Run the column of a planar case with an open top; the case's domain height sets the air column. */
+export function runNormalIncidence(c: Case): NormalIncidenceResult {
+  const g = planGrid(c);
+  const mat = buildMaterials(c, g);
+  const { nz } = g;
+  const S = nz + 1;
+  const col = (a: Float64Array): Float64Array => {
+    const out = new Float64Array(2 * S);
+    out.set(a.subarray(0, S));
+    return out;
+  };
+  const chz = new Float64Array(nz);
+  for (let k = 0; k < nz; k++) chz[k] = g.dtS / (MU0 * g.dzM[k]);
+  const f: YeeFields = {
+    nx: 1,
+    nz,
+    S,
+    ex: new Float64Array(2 * S),
+    ez: new Float64Array(2 * S),
+    hy: new Float64Array(2 * S),
+    caEx: col(mat.caEx),
+    cbEx: col(mat.cbEx),
+    caEz: col(mat.caEz),
+    cbEz: new Float64Array(2 * S), // no Ez: a plane wave uniform along x
+    chx: 0,
+    chz,
+    rp: new Float64Array(2).fill(1),
+    rm: new Float64Array(2).fill(1),
+    axisFactor: 0,
+  };
+  const hz = cpmlProfile(g.pmlTop, 0.5, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
+  const exProf = cpmlProfile(g.pmlTop, 0, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
+  const empty = new Float64Array(0);
+  const pml: CpmlState = {
+    ix0: 1, px: 0, kz0: nz - g.pmlTop, pz: g.pmlTop,
+    bHx: empty, aHx: empty, bEz: empty, aEz: empty,
+    bHz: hz.b, aHz: hz.a, bEx: exProf.b, aEx: exProf.a,
+    psiHx: empty, psiEz: empty, psiHz: new Float64Array(g.pmlTop), psiEx: new Float64Array(g.pmlTop),
+  };
+  let zrow: ImpedanceRow | undefined;
+  if (c.ground.model === 'impedance') {
+    const s = (c.ground.segments ?? [])[0];
+    const z = groundImpedance(c.frequency_hz, s.conductivity_s_per_m, s.relative_permittivity);
+    const ex = c.ground.impedance_sampling === 'extrapolated';
+    zrow = { halfR: new Float64Array([z.resistanceOhm / 2]), lOverDt: new Float64Array([z.inductanceH / g.dtS]), wNear: ex ? 1.5 : 1, wFar: ex ? -0.5 : 0, hsPrev: new Float64Array(1) };
+  }
+  // rows: ground surface g0; probes a quarter and a half of the way up; the sheet source at 3/4; above it two more
+  const g0 = g.groundRow;
+  const airRows = nz - g.pmlTop - g0;
+  const kA = g0 + Math.round(airRows * 0.25);
+  const kB = g0 + Math.round(airRows * 0.5);
+  const kS = g0 + Math.round(airRows * 0.7);
+  const kC = g0 + Math.round(airRows * 0.8);
+  const kD = g0 + Math.round(airRows * 0.9);
+  const taps: Tap[] = [kA, kB, kC, kD].map((k) => ({ field: 'ex', index: k, weight: 1, halfStepOffset: 2 }));
+  const N = g.stepsPerPeriod;
+  const dft = new RunningDft(taps, N);
+  const omega = 2 * Math.PI * c.frequency_hz;
+  const rampSteps = c.run.ramp_periods * N;
+  const heightM = g.zNodeM[nz] - g.zNodeM[0];
+  const settle = rampSteps + Math.ceil((4 * heightM) / C0 / g.dtS) + 4 * N;
+  const window = c.run.dft_periods * N;
+  for (let n = 0; n < settle + window; n++) {
+    updateH(f);
+    updateHCpml(f, pml);
+    if (zrow) applySurfaceImpedance(f, zrow);
+    updateE(f);
+    updateECpml(f, pml);
+    f.ex[kS] += sourceCurrent((n + 0.5) * g.dtS, omega, rampSteps * g.dtS);
+    if (n >= settle) dft.accumulate(n, { ex: f.ex, ez: f.ez, hy: f.hy });
+  }
+  const ph = dft.take();
+  const e = (t: number) => ({ re: ph.re[t], im: ph.im[t] });
+  const k = yee1dWavenumber(omega, g.dtS, g.dxM);
+  const z = (row: number) => g.zNodeM[row];
+  const below = decompose(e(0), e(1), k, z(kA), z(kB));
+  const above = decompose(e(2), e(3), k, z(kC), z(kD));
+  const d = below.down.re * below.down.re + below.down.im * below.down.im;
+  const gamma = {
+    re: (below.up.re * below.down.re + below.up.im * below.down.im) / d,
+    im: (below.up.im * below.down.re - below.up.re * below.down.im) / d,
+  };
+  return {
+    groundReflection: gamma,
+    topReflectionMagnitude: Math.hypot(above.down.re, above.down.im) / Math.hypot(above.up.re, above.up.im),
+    measuredPhaseVelocityRatio: omega / (C0 * measuredWavenumber(e(2), e(3), z(kD) - z(kC))),
+    dzM: g.dxM,
+    dtS: g.dtS,
+    stepsPerPeriod: N,
+  };
+}
