@@ -1,0 +1,92 @@
+// Builds and runs the shared native C reference kernel (../shared/bench/fdtd2d.c, outside the project: a yardstick,
+// never copied in) so the benchmark can set our kernels' speed beside it in one run.
+// Build goes to a fresh temporary directory; a missing compiler or source is reported, not thrown.
+import { execFileSync, spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+/** Default location of the shared reference, seen from the compiled bench/ folder (dist/bench → ../../../shared). */
+export function defaultReferenceDir(): string {
+  const here = dirname(fileURLToPath(import.meta.url));
+  return resolve(here, '..', '..', '..', 'shared', 'bench');
+}
+
+export interface NativeReference {
+  /** Path of the built executable. */
+  executable: string;
+  /** Compiler command line used (for the report). */
+  build: string;
+  /** Whether runs are pinned with `taskset -c 0`. */
+  pinned: boolean;
+  /** Remove the temporary build directory. */
+  dispose(): void;
+}
+
+export interface NativeRun {
+  variant: string;
+  nx: number;
+  nz: number;
+  steps: number;
+  seconds: number;
+  mcellsPerS: number;
+}
+
+function onPath(cmd: string): boolean {
+  return spawnSync('sh', ['-c', `command -v ${cmd}`], { stdio: 'ignore' }).status === 0;
+}
+
+/** Build the reference with gcc -O3 -march=native; a string says why it cannot be built. */
+export function buildNativeReference(referenceDir = defaultReferenceDir()): NativeReference | string {
+  const source = join(referenceDir, 'fdtd2d.c');
+  if (!existsSync(source)) return `native reference not found at ${source}`;
+  if (!onPath('gcc')) return 'gcc is not on PATH; install gcc to compare against the native reference';
+  const dir = mkdtempSync(join(tmpdir(), 'loamwave-bench-'));
+  const executable = join(dir, 'fdtd2d_o3');
+  const args = ['-O3', '-march=native', '-o', executable, source, '-lm'];
+  try {
+    execFileSync('gcc', args, { stdio: ['ignore', 'ignore', 'pipe'] });
+  } catch (e) {
+    rmSync(dir, { recursive: true, force: true });
+    return `gcc failed to build ${source}: ${String((e as { stderr?: Buffer }).stderr ?? e).trim().split('\n')[0]}`;
+  }
+  return {
+    executable,
+    build: `gcc ${args.join(' ').replace(executable, '<tmp>/fdtd2d_o3')}`,
+    pinned: onPath('taskset'),
+    dispose: () => rmSync(dir, { recursive: true, force: true }),
+  };
+}
+
+/** Parse the reference's one output line (`key=value` pairs). */
+export function parseNativeLine(line: string): NativeRun {
+  const kv = new Map(
+    line
+      .trim()
+      .split(/\s+/)
+      .map((p) => p.split('=') as [string, string]),
+  );
+  const num = (key: string): number => {
+    const v = Number(kv.get(key));
+    if (!Number.isFinite(v)) throw new Error(`native reference output lacks ${key}: ${line}`);
+    return v;
+  };
+  return {
+    variant: kv.get('variant') ?? '?',
+    nx: num('nx'),
+    nz: num('nz'),
+    steps: num('steps'),
+    seconds: num('seconds'),
+    mcellsPerS: num('mcells'),
+  };
+}
+
+/** One timed run of the reference (`base` variant unless told), pinned to core 0 when taskset exists. */
+export function runNativeReference(ref: NativeReference, nx: number, nz: number, steps: number, variant = 'base'): NativeRun {
+  const args = [String(nx), String(nz), String(steps), variant];
+  const out = ref.pinned
+    ? execFileSync('taskset', ['-c', '0', ref.executable, ...args], { encoding: 'utf8' })
+    : execFileSync(ref.executable, args, { encoding: 'utf8' });
+  return parseNativeLine(out);
+}
