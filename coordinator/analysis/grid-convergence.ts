@@ -32,6 +32,8 @@ export interface GridConvergenceOptions {
   readonly safetyFactor?: number;
   /** Largest acceptable uncertainty of the fine solution, in its own unit, for the `converged` verdict. @defaultValue Infinity */
   readonly tolerance?: number;
+  /** Unit of φ for the advice text, e.g. `dB`. @defaultValue '' */
+  readonly unit?: string;
 }
 
 export interface GridConvergenceResult {
@@ -90,6 +92,8 @@ export function apparentOrder(r21: number, r32: number, eps21: number, eps32: nu
 export function gridConvergence(levels: readonly GridLevel[], options: GridConvergenceOptions = {}): GridConvergenceResult {
   const fs = options.safetyFactor ?? 1.25;
   const tolerance = options.tolerance ?? Number.POSITIVE_INFINITY;
+  const unit = options.unit ? ` ${options.unit}` : '';
+  const fmt = (v: number) => (Number.isFinite(v) ? v.toPrecision(3) : String(v)) + unit;
   const sorted = [...levels].sort((a, b) => a.h - b.h);
   if (sorted.length < 3) throw new Error(`gridConvergence: needs three grid levels (got ${sorted.length})`);
   for (let k = 1; k < sorted.length; k++) {
@@ -173,10 +177,6 @@ export function gridConvergence(levels: readonly GridLevel[], options: GridConve
       ? `converges at order ${p.toFixed(2)}; the fine grid is within ±${fmt(uncertainty)} of the grid-independent value`
       : `converges at order ${p.toFixed(2)} but the fine grid is only within ±${fmt(uncertainty)}: refine the grid`,
   };
-}
-
-function fmt(v: number): string {
-  return Number.isFinite(v) ? v.toPrecision(3) : String(v);
 }
 
 // ---- Grouping the runs of a sweep ----------------------------------------------------------------------------
@@ -303,7 +303,7 @@ export function convergenceTable(runs: readonly ConvergenceRun[], options: Conve
         const tolerance = output === 'ez_phase_deg' ? (options.tolerancePhaseDeg ?? 1) : (options.toleranceDb ?? 0.2);
         const result = gridConvergence(
           ordered.map((run, k) => ({ h: cellSizeOf(options.axis, run.resolution), phi: values[k] })),
-          { tolerance },
+          { tolerance, unit: output === 'ez_phase_deg' ? '°' : 'dB' },
         );
         rows.push({
           group,

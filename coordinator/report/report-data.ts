@@ -1,0 +1,91 @@
+// What the HTML report shows, as one plain data structure: the report builder takes it and returns HTML, so it can
+// be filled from an output folder (the `report` command) or from numbers computed in a test. No I/O here.
+import { z } from 'zod';
+import { ConvergenceRowSchema } from '../analysis/grid-convergence.js';
+import { SensitivityRowSchema } from '../analysis/sensitivity-table.js';
+
+export const CellSchema = z.union([z.number(), z.string(), z.boolean(), z.null()]);
+export type Cell = z.infer<typeof CellSchema>;
+
+export const VariedInputSchema = z.strictObject({
+  /** Sweep path, e.g. `ground.segments[0].conductivity_s_per_m`. */
+  path: z.string(),
+  /** Its column in runs.parquet, e.g. `ground_segments_0_conductivity_s_per_m`. */
+  column: z.string(),
+  /** Smallest and largest value among the runs (null for text values). */
+  min: z.number().nullable(),
+  max: z.number().nullable(),
+  /** Number of distinct values among the runs. */
+  distinct: z.number().int().min(0),
+});
+export type VariedInput = z.infer<typeof VariedInputSchema>;
+
+export const FieldSeriesSchema = z.strictObject({
+  job_id: z.string(),
+  /** Values of the varied inputs of this run, keyed by column. */
+  params: z.record(z.string(), CellSchema),
+  /** Frequency of the run, Hz: the phase plot removes the free-space delay 360°·f·r/c. */
+  frequency_hz: z.number().positive(),
+  points: z.array(
+    z.strictObject({
+      range_m: z.number(),
+      ez_db_uv_per_m: z.number(),
+      ez_phase_deg: z.number(),
+    }),
+  ),
+});
+export type FieldSeries = z.infer<typeof FieldSeriesSchema>;
+
+export const WarningKindSchema = z.enum([
+  /** The surface-impedance model is near or past its validity limit for a run. */
+  'impedance_validity',
+  /** The resolution study says a mesh is not converged (or cannot tell). */
+  'unconverged_mesh',
+  /** A job failed. */
+  'failed_job',
+  /** Any other warning a run reported. */
+  'solver',
+]);
+export type WarningKind = z.infer<typeof WarningKindSchema>;
+
+export const ReportWarningSchema = z.strictObject({
+  kind: WarningKindSchema,
+  job_id: z.string().nullable(),
+  message: z.string(),
+});
+export type ReportWarning = z.infer<typeof ReportWarningSchema>;
+
+export const ReportDataSchema = z.strictObject({
+  title: z.string(),
+  /** Program and version that made the report, e.g. `loamwave 0.1.0`. */
+  generated_by: z.string(),
+  sweep: z.strictObject({
+    name: z.string(),
+    description: z.string().nullable(),
+    /** The sweep file in the output folder, by name. */
+    file_name: z.string().nullable(),
+    /** `full_factorial`, `latin_hypercube` or `saltelli` (with its sample count and seed where it has them). */
+    design: z.string(),
+    /** The varied `grid.*` path judged for convergence, or null. */
+    resolution_axis: z.string().nullable(),
+    varied: z.array(VariedInputSchema),
+    jobs: z.strictObject({
+      total: z.number().int().min(0),
+      done: z.number().int().min(0),
+      failed: z.number().int().min(0),
+      pending: z.number().int().min(0),
+    }),
+    wall_time_s_total: z.number().min(0),
+  }),
+  field_series: z.array(FieldSeriesSchema),
+  convergence: z.array(ConvergenceRowSchema),
+  sensitivity: z.array(SensitivityRowSchema),
+  runs: z.strictObject({
+    columns: z.array(z.string()),
+    rows: z.array(z.array(CellSchema)),
+    /** Rows in runs.parquet (the table may show fewer). */
+    total: z.number().int().min(0),
+  }),
+  warnings: z.array(ReportWarningSchema),
+});
+export type ReportData = z.infer<typeof ReportDataSchema>;

@@ -1,0 +1,254 @@
+// The report's plots: Vega-Lite specifications built from report data, compiled with vega-lite and rendered to
+// SVG strings headless with vega's View (no browser, no canvas, no network, no web fonts).
+import * as vega from 'vega';
+import { compile, type TopLevelSpec } from 'vega-lite';
+import { C0 } from '../../solver/constants.js';
+import type { ConvergenceRow } from '../analysis/grid-convergence.js';
+import type { SensitivityRow } from '../analysis/sensitivity-table.js';
+import type { FieldSeries, VariedInput } from './report-data.js';
+
+/** One plot as the report embeds it. */
+export interface Plot {
+  /** Stable id, also the figure's `data-plot` attribute (the browser test looks plots up by it). */
+  id: string;
+  title: string;
+  /** A sentence under the plot saying how to read it. */
+  caption: string;
+  spec: TopLevelSpec;
+}
+
+const FONT = 'system-ui, -apple-system, "Segoe UI", Roboto, "DejaVu Sans", sans-serif';
+const CONFIG = {
+  font: FONT,
+  view: { stroke: '#ccc' },
+  axis: { labelFontSize: 11, titleFontSize: 12, gridColor: '#e6e6e6', labelLimit: 280 },
+  legend: { labelFontSize: 11, titleFontSize: 11, titleLimit: 420, labelLimit: 200, orient: 'bottom' as const },
+  title: { fontSize: 13, anchor: 'start' as const },
+};
+
+/** Most runs drawn as lines in one field plot; beyond it an evenly spaced subset is drawn (and said so). */
+export const MAX_FIELD_LINES = 200;
+
+/** Wrap degrees into (−180, 180]. */
+function wrapDeg(deg: number): number {
+  const w = ((((deg + 180) % 360) + 360) % 360) - 180;
+  return w === -180 ? 180 : w;
+}
+
+/**
+ * Phase of Ez relative to the free-space delay, unwrapped along range: φ + 360°·f·r/c (with e^{jωt}, propagation
+ * alone gives −k·r; common practice in VLF phase work to show what is left, which varies slowly with range).
+ */
+export function residualPhaseDeg(series: FieldSeries): Array<{ range_m: number; value: number }> {
+  const pts = [...series.points].sort((a, b) => a.range_m - b.range_m);
+  const out: Array<{ range_m: number; value: number }> = [];
+  let prev: number | undefined;
+  for (const p of pts) {
+    let v = wrapDeg(p.ez_phase_deg + (360 * series.frequency_hz * p.range_m) / C0);
+    if (prev !== undefined) v += 360 * Math.round((prev - v) / 360);
+    out.push({ range_m: p.range_m, value: v });
+    prev = v;
+  }
+  return out;
+}
+
+function evenlySpaced<T>(items: readonly T[], max: number): T[] {
+  if (items.length <= max) return [...items];
+  return Array.from({ length: max }, (_, k) => items[Math.floor((k * items.length) / max)]);
+}
+
+/** Most distinct values of an input given one legend entry each; more get a continuous colour ramp. */
+const MAX_LEGEND_ENTRIES = 10;
+
+/** Colour encoding for one varied input: one entry per value for a few values, a ramp for many. */
+function colourEncoding(input: VariedInput | null): Record<string, unknown> {
+  if (input === null) return { field: 'colour', type: 'nominal', title: 'run' };
+  if (input.min === null || input.distinct <= MAX_LEGEND_ENTRIES) {
+    return { field: 'colour', type: 'ordinal', title: input.path, scale: { scheme: 'viridis' } };
+  }
+  // Decades (conductivity, frequency over a wide band) read better on a log colour scale.
+  const log = input.max !== null && input.min > 0 && input.max / input.min >= 100;
+  return {
+    field: 'colour',
+    type: 'quantitative',
+    title: input.path,
+    scale: { scheme: 'viridis', ...(log ? { type: 'log' } : {}) },
+    legend: { type: 'gradient' },
+  };
+}
+
+/** Field strength and phase against range, coloured by one varied input. */
+export function fieldPlots(series: readonly FieldSeries[], varied: readonly VariedInput[]): Plot[] {
+  const drawn = evenlySpaced(series, MAX_FIELD_LINES);
+  const note = drawn.length < series.length ? ` (${drawn.length} of ${series.length} runs drawn, evenly spaced)` : '';
+  const inputs: Array<VariedInput | null> = varied.length > 0 ? varied.slice(0, 6) : [null];
+  const plots: Plot[] = [];
+  for (const input of inputs) {
+    const colourField = input?.column ?? 'run';
+    const colour = colourEncoding(input);
+    for (const quantity of ['db', 'phase'] as const) {
+      const values = drawn.flatMap((s) => {
+        const c = input ? s.params[input.column] : s.job_id.slice(0, 8);
+        const pts =
+          quantity === 'db'
+            ? s.points.map((p) => ({ range_m: p.range_m, value: p.ez_db_uv_per_m }))
+            : residualPhaseDeg(s);
+        return pts.map((p) => ({ range_km: p.range_m / 1000, value: p.value, colour: c, job: s.job_id }));
+      });
+      const yTitle = quantity === 'db' ? 'Ez (dB µV/m)' : 'residual phase (°)';
+      plots.push({
+        id: `field-${quantity}-${colourField}`,
+        title: `${quantity === 'db' ? 'Field strength' : 'Phase'} against range${input ? `, coloured by ${input.path}` : ''}`,
+        caption:
+          (quantity === 'db'
+            ? 'Vertical electric field at the receivers, rms, in dB above 1 µV/m; one line per run'
+            : 'Residual phase: phase of Ez plus 360°·f·r/c, i.e. what is left after the free-space delay, unwrapped along range; one line per run') +
+          note +
+          '.',
+        spec: {
+          $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
+          width: 440,
+          height: 240,
+          data: { values },
+          mark: { type: 'line', point: { size: 18 }, strokeWidth: 1.2, opacity: 0.85 },
+          encoding: {
+            x: { field: 'range_km', type: 'quantitative', title: 'range (km)' },
+            y: { field: 'value', type: 'quantitative', title: yTitle, scale: { zero: false } },
+            color: colour as never,
+            detail: { field: 'job', type: 'nominal' },
+          },
+          config: CONFIG,
+        },
+      });
+    }
+  }
+  return plots;
+}
+
+const OUTPUT_LABEL: Record<string, string> = { ez_db_uv_per_m: 'Ez (dB µV/m)', ez_phase_deg: 'phase of Ez (°)' };
+
+/** Difference from the finest grid against resolution, one line per group and receiver, for each output. */
+export function convergencePlots(rows: readonly ConvergenceRow[]): Plot[] {
+  const plots: Plot[] = [];
+  for (const output of ['ez_db_uv_per_m', 'ez_phase_deg'] as const) {
+    const mine = rows.filter((r) => r.output === output);
+    if (mine.length === 0) continue;
+    const values = mine.flatMap((r) => {
+      const levels = JSON.parse(r.levels_json) as Array<[number, number]>;
+      const finest = levels[0][1];
+      return levels.map(([resolution, value]) => ({
+        resolution,
+        difference: value - finest,
+        receiver_km: r.range_m / 1000,
+        line: `${r.group} ${r.range_m}`,
+      }));
+    });
+    const axis = mine[0].resolution_axis;
+    plots.push({
+      id: `convergence-${output}`,
+      title: `Convergence of ${OUTPUT_LABEL[output]}`,
+      caption: `Each line is one group of otherwise-equal runs at one receiver: the output on each grid minus the output on the finest grid, against ${axis === 'cells_per_wavelength' ? 'cells per wavelength' : 'cell size (m)'}. Lines flattening towards zero mean a converging mesh.`,
+      spec: {
+        $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
+        width: 440,
+        height: 220,
+        data: { values },
+        layer: [
+          { mark: { type: 'rule', color: '#888', strokeDash: [4, 3] }, encoding: { y: { datum: 0 } } },
+          {
+            mark: { type: 'line', point: true, strokeWidth: 1.4 },
+            encoding: {
+              x: {
+                field: 'resolution',
+                type: 'quantitative',
+                title: axis === 'cells_per_wavelength' ? 'cells per wavelength' : 'cell size (m)',
+                scale: { zero: false },
+              },
+              y: { field: 'difference', type: 'quantitative', title: `difference from finest (${output === 'ez_db_uv_per_m' ? 'dB' : '°'})` },
+              color: { field: 'receiver_km', type: 'ordinal', title: 'receiver (km)' },
+              detail: { field: 'line', type: 'nominal' },
+            },
+          },
+        ],
+        config: CONFIG,
+      } as TopLevelSpec,
+    });
+  }
+  return plots;
+}
+
+/** Most outputs given a sensitivity chart of their own; the rest are in the table. */
+export const MAX_SENSITIVITY_CHARTS = 12;
+
+const MEASURE_LABEL: Record<string, string> = {
+  first_order: 'first order S',
+  total_order: 'total order ST',
+  src: 'SRC',
+  mu_star: 'μ*',
+};
+
+/** Horizontal bars of the chosen measures per parameter, with the bootstrap interval as a rule where there is one. */
+export function sensitivityPlots(rows: readonly SensitivityRow[]): Plot[] {
+  const shown = rows.filter((r) => r.measure in MEASURE_LABEL);
+  const outputs = [...new Set(shown.map((r) => r.output))].slice(0, MAX_SENSITIVITY_CHARTS);
+  return outputs.map((output, k) => {
+    const values = shown
+      .filter((r) => r.output === output)
+      .map((r) => ({
+        parameter: r.parameter,
+        measure: MEASURE_LABEL[r.measure],
+        value: r.value,
+        low: r.ci_low ?? r.value,
+        high: r.ci_high ?? r.value,
+      }));
+    const parameters = [...new Set(values.map((v) => v.parameter))];
+    const measures = [...new Set(values.map((v) => v.measure))];
+    const hasInterval = shown.some((r) => r.output === output && r.ci_low !== null);
+    return {
+      id: `sensitivity-${k}`,
+      title: `Sensitivity of ${output}`,
+      caption:
+        `Bars: ${measures.join(', ')} per varied input` +
+        (hasInterval ? '; black lines: bootstrap confidence intervals' : '') +
+        '. Larger means the output depends more on that input.',
+      spec: {
+        $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
+        width: 300,
+        height: Math.max(60, parameters.length * measures.length * 16),
+        data: { values },
+        encoding: {
+          y: { field: 'parameter', type: 'nominal', title: null, sort: parameters, axis: { labelLimit: 0 } },
+          yOffset: { field: 'measure', type: 'nominal', sort: measures },
+        },
+        layer: [
+          {
+            mark: { type: 'bar', height: { band: 1 } },
+            encoding: {
+              x: { field: 'value', type: 'quantitative', title: 'index' },
+              color: { field: 'measure', type: 'nominal', title: 'measure', sort: measures },
+            },
+          },
+          {
+            mark: { type: 'rule', color: '#222', strokeWidth: 1.5 },
+            encoding: { x: { field: 'low', type: 'quantitative' }, x2: { field: 'high' } },
+          },
+        ],
+        config: CONFIG,
+      } as TopLevelSpec,
+    };
+  });
+}
+
+/** Compile a Vega-Lite spec and render it to an SVG string with vega's headless View. */
+export async function renderSvg(spec: TopLevelSpec): Promise<string> {
+  const compiled = compile(spec).spec;
+  // A loader that refuses every fetch: all data is inline, and the report must never reach the network.
+  const loader = vega.loader();
+  loader.load = () => Promise.reject(new Error('the report renders inline data only'));
+  const view = new vega.View(vega.parse(compiled), { renderer: 'none', loader });
+  try {
+    return await view.toSVG();
+  } finally {
+    view.finalize();
+  }
+}
