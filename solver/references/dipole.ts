@@ -41,10 +41,18 @@ export function pecDipoleField(frequencyHz: number, momentAM: number, rhoM: numb
   const eR = scale(mul(radial, phase), (ETA0 * momentImage * cosT) / (2 * Math.PI * r * r)); // E_r (Balanis §4.2)
   const eTheta = mulJ(scale(mul(transverse, phase), (ETA0 * k * momentImage * sinT) / (4 * Math.PI * r))); // E_θ
   const hPhi = mulJ(scale(mul(radial, phase), (k * momentImage * sinT) / (4 * Math.PI * r))); // H_φ
+  return fromSphericalComponents(eR, eTheta, hPhi, sinT, cosT);
+}
+
+/**
+ * Horizontal and vertical components from radial and angular ones, the angle measured from the vertical:
+ * r̂ = (sin θ, cos θ) and θ̂ = (cos θ, −sin θ) in (horizontal, z).
+ */
+function fromSphericalComponents(eRadial: C, eAngular: C, h: C, sinAngle: number, cosAngle: number): PointField {
   return {
-    eHorizontal: add(scale(eR, sinT), scale(eTheta, cosT)),
-    ez: sub(scale(eR, cosT), scale(eTheta, sinT)),
-    h: hPhi,
+    eHorizontal: add(scale(eRadial, sinAngle), scale(eAngular, cosAngle)),
+    ez: sub(scale(eRadial, cosAngle), scale(eAngular, sinAngle)),
+    h,
   };
 }
 
@@ -101,12 +109,7 @@ export function pecLineSourceField(frequencyHz: number, momentPerLengthAM: numbe
   const hy = mulJ(scale(h1, (-k * p * sinP) / 2)); // H_y = −(jkp/2)·H1(kρ)·sin ψ
   const eRho = scale(h1, (-ETA0 * p * cosP) / (2 * rho)); // E_ρ = −(η0p/(2ρ))·H1(kρ)·cos ψ
   const ePsi = scale(h1Prime, (k * ETA0 * p * sinP) / 2); // E_ψ = (kη0p/2)·H1'(kρ)·sin ψ
-  // ρ̂ = (sin ψ, cos ψ), ψ̂ = (cos ψ, −sin ψ) in (x, z)
-  return {
-    eHorizontal: add(scale(eRho, sinP), scale(ePsi, cosP)),
-    ez: sub(scale(eRho, cosP), scale(ePsi, sinP)),
-    h: hy,
-  };
+  return fromSphericalComponents(eRho, ePsi, hy, sinP, cosP);
 }
 
 /**
