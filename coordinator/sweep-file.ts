@@ -16,10 +16,12 @@ import {
   varyPathProblem,
   withValueAt,
 } from '../schemas/sweep.js';
-import { listValues } from './sweep-expand.js';
+import { countDesignPoints, listValues } from './sweep-expand.js';
 import { SALTELLI_MAX_PARAMETERS } from './sweep-sampling.js';
 
 const CODE = 'loamwave.sweep.invalid';
+/** Most design points one sweep may have: beyond this the expansion alone would exhaust memory (a Loamwave choice). */
+export const MAX_DESIGN_POINTS = 1_000_000;
 
 /** Read and validate a sweep file; `text` is the file as read (copied into the outputs). */
 export function loadSweep(path: string): { sweep: Sweep; text: string; path: string } {
@@ -70,6 +72,14 @@ export function parseSweep(input: unknown, source = 'sweep'): Sweep {
     const problem = varyPathProblem(path, sweep.base);
     if (problem) throw new UserError(`${source}: vary.${path}: ${problem}`, CODE);
     checkGeneratorValues(sweep, path, g, input, source);
+  }
+  const points = countDesignPoints(sweep);
+  if (points > MAX_DESIGN_POINTS) {
+    const where = sweep.design.kind === 'full_factorial' ? 'vary' : 'design.samples';
+    throw new UserError(
+      `${source}: ${where}: the design has ${points.toPrecision(3)} points, more than ${MAX_DESIGN_POINTS}; vary fewer values or split the sweep`,
+      CODE,
+    );
   }
   if (sweep.resolution_axis === undefined) {
     const axis = defaultResolutionAxis(sweep.vary);

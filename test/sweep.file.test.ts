@@ -45,6 +45,7 @@ describe('sweep file validation', () => {
     ['a saltelli design of one parameter', { design: { kind: 'saltelli', samples: 8 }, vary: { frequency_hz: { uniform: { from: 1e4, to: 2e4 } } } }, 'design.kind: a saltelli design needs at least 2 varied parameters'],
     ['a resolution axis that is not varied', { resolution_axis: 'grid.cells_per_wavelength', vary: { frequency_hz: { values: [1e4] } } }, 'resolution_axis: must be one of the varied paths (frequency_hz)'],
     ['an unknown design', { design: { kind: 'random' } }, 'design.kind must be one of "full_factorial", "latin_hypercube", "saltelli"'],
+    ['too many design points', { vary: { frequency_hz: { linear: { from: 1e4, to: 2e4, count: 1000 } }, 'source.height_m': { linear: { from: 0, to: 10, count: 1001 } } } }, 'sweep.yaml: vary: the design has 1.00e+6 points, more than 1000000'],
     ['an unknown top-level key', { varry: {} }, 'unknown key(s) "varry"'],
   ])('when the sweep has %s then the error names the place and the fix', (_what, extra, expected) => {
     const msg = errorOf(() => parseSweep(sweepWith(extra), 'sweep.yaml'));
