@@ -1,0 +1,124 @@
+// `loamwave run SWEEP`: the embedded default runs every pending job on this machine's cores (longest first) and
+// commits each result as it arrives; with `--redis URL` it submits to the queue and collects what the workers
+// return instead. Either way a rerun recomputes nothing that is done, and the outputs are written at the end.
+import { availableParallelism } from 'node:os';
+import { performance } from 'node:perf_hooks';
+import { Option, type Command } from 'commander';
+import { LocalDispatch, type LocalDispatchSummary } from '../local-dispatch.js';
+import { writeOutputs } from '../outputs.js';
+import { ProgressBar } from '../progress-bar.js';
+import { addQueueOptions, integerOption, type QueueCliOptions } from '../queue-options.js';
+import { queueSession, withQueue } from '../queue-session.js';
+import { longestFirst, openSweepRun, type SweepRun } from '../run-setup.js';
+import { EXIT_STOPPED, onStopSignals } from '../stop-signals.js';
+import { SweepProgress } from '../sweep-progress.js';
+
+interface RunCliOptions extends QueueCliOptions {
+  out?: string;
+  workers: number;
+  maxMemoryMb?: number;
+  json?: boolean;
+}
+
+/** Exit code of a sweep that finished with some jobs failed (outputs are still written). */
+export const EXIT_SOME_FAILED = 1;
+
+export function registerRun(program: Command): void {
+  const cmd = program
+    .command('run')
+    .description('run a sweep on this machine (or through a Redis queue with --redis) and write its outputs')
+    .argument('<sweep>', 'sweep file (.yaml or .json)')
+    .option('--out <dir>', 'output folder (default: out/<sweep name>/)')
+    .addOption(
+      new Option('--workers <n>', 'solver threads on this machine (without --redis)')
+        .argParser(integerOption(1, 1024))
+        .default(availableParallelism()),
+    )
+    .addOption(new Option('--max-memory-mb <n>', 'largest memory one case may need, MiB (default: 70 % of RAM / workers)').argParser(integerOption(1)))
+    .option('--json', 'print a summary as JSON on stdout');
+  addQueueOptions(cmd, { required: false, what: 'submit to this queue and collect what the workers return' });
+  cmd.action(async (sweepPath: string, opts: RunCliOptions) => {
+    const started = performance.now();
+    const run = openSweepRun(sweepPath, opts.out);
+    try {
+      const outcome = opts.redis ? await runQueued(run, opts) : await runEmbedded(run, opts);
+      const counts = run.ledger.counts();
+      if (outcome.stopped) {
+        process.stderr.write(`stopped: ${counts.done} of ${run.jobs.length} job(s) done; run the same command again to go on\n`);
+        process.exitCode = EXIT_STOPPED;
+      } else {
+        await writeOutputs(run.ledger, run.sweep, run.text, run.outDir, { jobs: run.jobs });
+        if (counts.failed > 0) {
+          process.stderr.write(`error: ${counts.failed} job(s) failed; their reasons are in the error column of runs.parquet (and \`loamwave status\`)\n`);
+          process.exitCode = EXIT_SOME_FAILED;
+        }
+      }
+      if (opts.json) {
+        const summary = {
+          sweep: run.sweep.name,
+          out_dir: run.outDir,
+          mode: opts.redis ? 'queue' : 'embedded',
+          jobs: run.jobs.length,
+          counts,
+          solved_now: outcome.solvedNow,
+          solver_calls: outcome.solverCalls,
+          stopped: outcome.stopped,
+          wall_time_s: (performance.now() - started) / 1000,
+        };
+        process.stdout.write(JSON.stringify(summary) + '\n');
+      }
+    } finally {
+      run.ledger.close();
+    }
+  });
+}
+
+interface RunOutcome {
+  readonly stopped: boolean;
+  /** Results committed by this invocation. */
+  readonly solvedNow: number;
+  /** Solver starts on this machine (embedded) or null (queue: the workers solve). */
+  readonly solverCalls: number | null;
+}
+
+async function runEmbedded(run: SweepRun, opts: RunCliOptions): Promise<RunOutcome> {
+  const { ledger } = run;
+  // The local queue died with any earlier process: whatever was running or queued is pending again.
+  ledger.resetInterrupted({ includeQueued: true });
+  const todo = longestFirst(ledger.list('pending'), run.costById);
+  const progress = new SweepProgress(ledger, run.costById);
+  const bar = new ProgressBar({ stream: process.stderr });
+  const dispatch: LocalDispatch = new LocalDispatch({
+    ledger,
+    jobs: todo,
+    threads: opts.workers,
+    maxMemoryBytes: opts.maxMemoryMb === undefined ? undefined : opts.maxMemoryMb * 2 ** 20,
+    onFinished: (id) => progress.finished(id),
+    onChange: (running) => bar.update(progress.state(running)),
+  });
+  const dispose = onStopSignals(
+    () => {
+      process.stderr.write('\nstopping: letting running jobs finish; press Ctrl-C again to abandon them\n');
+      dispatch.finishRunning();
+    },
+    () => {
+      process.stderr.write('\nabandoning running jobs; they stay pending for the next run\n');
+      dispatch.abandonRunning();
+    },
+  );
+  let summary: LocalDispatchSummary;
+  try {
+    summary = await dispatch.run();
+  } finally {
+    dispose();
+  }
+  bar.finish(progress.state(new Map()));
+  return { stopped: summary.stopped, solvedNow: summary.solved, solverCalls: summary.solverCalls };
+}
+
+async function runQueued(run: SweepRun, opts: RunCliOptions): Promise<RunOutcome> {
+  return withQueue(run, opts, async (handles) => {
+    const r = await queueSession(run, handles, { submit: true, follow: true, progress: true });
+    return { stopped: r.stopped, solvedNow: r.collected.committed, solverCalls: null };
+  });
+}

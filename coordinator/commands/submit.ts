@@ -1,0 +1,40 @@
+// `loamwave submit SWEEP --redis URL`: put the sweep's outstanding jobs on its queue (longest first by priority)
+// and return; workers anywhere solve them and `loamwave collect` brings the results home. Idempotent: jobs done
+// in the ledger or already queued are not added again.
+import type { Command } from 'commander';
+import { addQueueOptions, type QueueCliOptions } from '../queue-options.js';
+import { submitSweep } from '../queue-submit.js';
+import { withQueue } from '../queue-session.js';
+import { openSweepRun } from '../run-setup.js';
+
+interface SubmitCliOptions extends QueueCliOptions {
+  out?: string;
+  json?: boolean;
+}
+
+export function registerSubmit(program: Command): void {
+  const cmd = program
+    .command('submit')
+    .description('queue the outstanding jobs of a sweep on Redis for workers to solve')
+    .argument('<sweep>', 'sweep file (.yaml or .json)')
+    .option('--out <dir>', 'output folder holding the ledger (default: out/<sweep name>/)')
+    .option('--json', 'print what was queued as JSON on stdout');
+  addQueueOptions(cmd, { required: true, what: 'the queue to submit to' });
+  cmd.action(async (sweepPath: string, opts: SubmitCliOptions) => {
+    const run = openSweepRun(sweepPath, opts.out);
+    try {
+      await withQueue(run, opts, async (handles) => {
+        const s = await submitSweep(handles, run.ledger, run.costById);
+        if (opts.json) {
+          process.stdout.write(
+            JSON.stringify({ sweep: run.sweep.name, queue: handles.target.queueName, prefix: handles.target.prefix, added: s.added, already_queued: s.alreadyQueued, finished: s.finished }) + '\n',
+          );
+        } else {
+          process.stderr.write(`${handles.target.queueName}: ${s.added} job(s) queued, ${s.alreadyQueued} already queued, ${s.finished} finished before\n`);
+        }
+      });
+    } finally {
+      run.ledger.close();
+    }
+  });
+}

@@ -1,0 +1,35 @@
+// Command-line options shared by the sweep commands: the Redis connection and key prefix, and whole-number
+// options with their bounds. One definition each, so `run`, `submit`, `worker`, `collect` and `status` agree.
+import { InvalidArgumentError, Option, type Command } from 'commander';
+import { DEFAULT_QUEUE_PREFIX } from '../worker/queue-payload.js';
+
+/** Environment variable a worker reads its Redis URL from when `--redis` is not given (handy in job arrays). */
+export const REDIS_URL_ENV = 'LOAMWAVE_REDIS_URL';
+
+/** Parser for an integer option within [min, max]; commander prints its message as one line and exits 1. */
+export function integerOption(min: number, max = Number.MAX_SAFE_INTEGER): (value: string) => number {
+  return (value: string) => {
+    const n = Number(value);
+    if (!/^[+-]?\d+$/.test(value.trim()) || !Number.isSafeInteger(n) || n < min || n > max) {
+      throw new InvalidArgumentError(`expected a whole number from ${min} to ${max}`);
+    }
+    return n;
+  };
+}
+
+export interface QueueCliOptions {
+  redis?: string;
+  redisCa?: string;
+  prefix: string;
+}
+
+/** Add `--redis URL`, `--redis-ca FILE` and `--prefix P`; `fromEnv` lets the URL come from LOAMWAVE_REDIS_URL. */
+export function addQueueOptions(cmd: Command, how: { required: boolean; fromEnv?: boolean; what: string }): Command {
+  const redis = new Option('--redis <url>', `Redis URL (redis://[user:password@]host:port[/db], rediss:// for TLS): ${how.what}`);
+  if (how.fromEnv) redis.env(REDIS_URL_ENV);
+  if (how.required && !how.fromEnv) redis.makeOptionMandatory(true);
+  cmd.addOption(redis);
+  cmd.addOption(new Option('--redis-ca <file>', 'PEM file of the certificate authority of a TLS Redis server'));
+  cmd.addOption(new Option('--prefix <prefix>', 'prefix of every Redis key of the queue').default(DEFAULT_QUEUE_PREFIX));
+  return cmd;
+}

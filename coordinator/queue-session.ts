@@ -1,0 +1,96 @@
+// The coordinator's side of a queued sweep, shared by `run --redis` and `collect --follow`: connect, submit when
+// asked, follow the collection with the progress bar (resubmitting if Redis lost the queue), and on Ctrl-C stop
+// following while the jobs stay queued for the workers. Everything here writes the ledger; workers never do.
+import type { Ledger } from './ledger.js';
+import { ProgressBar } from './progress-bar.js';
+import { activeProgress, collectOnce, followCollection, retireQueue, type CollectSummary } from './queue-collect.js';
+import { submitSweep, type SubmitSummary } from './queue-submit.js';
+import { QueueHandles, queueTarget } from './queue-target.js';
+import type { QueueCliOptions } from './queue-options.js';
+import type { SweepRun } from './run-setup.js';
+import { onStopSignals } from './stop-signals.js';
+import { SweepProgress } from './sweep-progress.js';
+
+export interface QueueSessionResult {
+  readonly submitted?: SubmitSummary;
+  readonly collected: { committed: number; failed: number };
+  /** Every job of the sweep is done or failed. */
+  readonly complete: boolean;
+  /** Stopped by a signal before the sweep was complete. */
+  readonly stopped: boolean;
+}
+
+export async function withQueue<T>(run: SweepRun, opts: QueueCliOptions, body: (h: QueueHandles) => Promise<T>): Promise<T> {
+  const target = queueTarget({ redis: opts.redis!, redisCa: opts.redisCa, prefix: opts.prefix }, run.sweep.name);
+  const { handles, warnings } = await QueueHandles.open(target);
+  for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
+  try {
+    return await body(handles);
+  } finally {
+    await handles.close();
+  }
+}
+
+/** Submit (when `submit`), then collect: once, or until the sweep is complete (`follow`). */
+export async function queueSession(
+  run: SweepRun,
+  handles: QueueHandles,
+  how: { submit: boolean; follow: boolean; progress: boolean },
+): Promise<QueueSessionResult> {
+  const { ledger } = run;
+  let submitted: SubmitSummary | undefined;
+  if (how.submit) {
+    submitted = await submitSweep(handles, ledger, run.costById);
+    process.stderr.write(
+      `${handles.target.queueName}: ${submitted.added} job(s) queued, ${submitted.alreadyQueued} already queued, ${submitted.finished} finished before\n`,
+    );
+  }
+  const totals = { committed: 0, failed: 0 };
+  const add = (s: CollectSummary) => {
+    totals.committed += s.committed;
+    totals.failed += s.failed;
+  };
+  if (!how.follow) {
+    add(await collectOnce(handles, ledger));
+    const complete = isComplete(ledger);
+    if (complete) await retireQueue(handles);
+    return { submitted, collected: totals, complete, stopped: false };
+  }
+
+  const progress = new SweepProgress(ledger, run.costById);
+  const bar = how.progress ? new ProgressBar({ stream: process.stderr }) : undefined;
+  const stop = new AbortController();
+  const dispose = onStopSignals(
+    () => {
+      process.stderr.write('\nstopping: the jobs stay queued for the workers; run the same command again to go on collecting\n');
+      stop.abort();
+    },
+    () => stop.abort(),
+  );
+  let complete: boolean;
+  try {
+    complete = await followCollection(handles, ledger, {
+      signal: stop.signal,
+      onRound: async (s) => {
+        add(s);
+        if (!bar) return;
+        for (const id of s.finishedIds) progress.finished(id);
+        bar.update(progress.state(await activeProgress(handles)));
+      },
+      onLost: async (missing) => {
+        process.stderr.write(`warning: Redis holds none of the ${missing} outstanding job(s) (restarted without persistence?); queueing them again\n`);
+        await submitSweep(handles, ledger, run.costById);
+      },
+    });
+  } finally {
+    dispose();
+  }
+  bar?.finish(progress.state(new Map()));
+  if (complete) await retireQueue(handles);
+  return { submitted, collected: totals, complete, stopped: !complete };
+}
+
+export function isComplete(ledger: Ledger): boolean {
+  const c = ledger.counts();
+  return c.pending + c.queued + c.running === 0;
+}

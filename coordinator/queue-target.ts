@@ -1,0 +1,81 @@
+// Where a sweep's queue lives: the Redis connection (from --redis/--redis-ca), the BullMQ key prefix and the
+// queue name derived from the sweep name; opens the BullMQ handles and a plain client for the registry, and
+// warns once about server settings that can lose jobs.
+import { Queue, QueueEvents } from 'bullmq';
+import { Redis } from 'ioredis';
+import { UserError } from '../schemas/errors.js';
+import { queueNameFor, registryKey } from '../worker/queue-payload.js';
+import { redactedUrl, redisOptions, redisServerWarnings, type RedisSettings } from '../worker/redis-connection.js';
+
+export interface QueueTarget {
+  readonly url: string;
+  readonly connection: RedisSettings;
+  readonly prefix: string;
+  readonly queueName: string;
+}
+
+/** Validate the command-line options of a queue and name the sweep's queue. */
+export function queueTarget(opts: { redis: string; redisCa?: string; prefix: string }, sweepName: string): QueueTarget {
+  if (!/^[A-Za-z0-9._-]+$/.test(opts.prefix)) {
+    throw new UserError(`--prefix: "${opts.prefix}" may hold only letters, digits, ".", "_" and "-" (it starts every Redis key)`);
+  }
+  return {
+    url: opts.redis,
+    connection: redisOptions({ url: opts.redis, caFile: opts.redisCa }),
+    prefix: opts.prefix,
+    queueName: queueNameFor(sweepName),
+  };
+}
+
+/** The open handles of one sweep's queue; `close()` is safe to call twice and runs every clean-up. */
+export class QueueHandles {
+  readonly queue: Queue;
+  readonly client: Redis;
+  private events: QueueEvents | undefined;
+  private closed = false;
+
+  private constructor(readonly target: QueueTarget) {
+    this.queue = new Queue(target.queueName, { connection: target.connection, prefix: target.prefix });
+    this.client = new Redis({ ...target.connection, lazyConnect: true });
+  }
+
+  /** Connect (one line naming the URL when Redis cannot be reached) and return the server's warnings. */
+  static async open(target: QueueTarget): Promise<{ handles: QueueHandles; warnings: string[] }> {
+    const h = new QueueHandles(target);
+    // Fail fast instead of retrying forever when the server is not there.
+    h.client.options.retryStrategy = () => null;
+    h.client.on('error', () => undefined);
+    try {
+      await h.client.connect();
+    } catch (e) {
+      await h.close();
+      throw new UserError(`--redis: cannot reach ${redactedUrl(target.url)} (${(e as Error).message}); start Redis or correct the URL`, 'loamwave.redis.unreachable', 3);
+    }
+    const warnings = await redisServerWarnings(h.client);
+    return { handles: h, warnings };
+  }
+
+  /** Events of the queue (completed, failed, progress), opened on first use. */
+  queueEvents(): QueueEvents {
+    this.events ??= new QueueEvents(this.target.queueName, { connection: this.target.connection, prefix: this.target.prefix });
+    return this.events;
+  }
+
+  /** The Redis key of the registry set that workers read. */
+  get registryKey(): string {
+    return registryKey(this.target.prefix);
+  }
+
+  async close(): Promise<void> {
+    if (this.closed) return;
+    this.closed = true;
+    const steps = [() => this.events?.close(), () => this.queue.close(), () => (this.client.status === 'ready' ? this.client.quit() : this.client.disconnect())];
+    for (const step of steps) {
+      try {
+        await step();
+      } catch {
+        // every clean-up runs even when one fails
+      }
+    }
+  }
+}

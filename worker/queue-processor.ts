@@ -1,0 +1,49 @@
+// The BullMQ sandboxed processor (compiled to dist/worker/queue-processor.js, loaded in a worker thread so the
+// worker's main thread keeps renewing the job lock while the solver is busy). Turns `CaseFailure`s into what
+// BullMQ understands: deterministic failures become `UnrecoverableError` (no retry); a stop request hands the
+// job back to the queue (`moveToWait`) instead of failing it.
+import { UnrecoverableError, WaitingError, type SandboxedJob } from 'bullmq';
+import { workerData } from 'node:worker_threads';
+import type { JobResult } from '../schemas/result.js';
+import { CaseFailure } from './case-failure.js';
+import { QueueJobDataSchema } from './queue-payload.js';
+import { defaultMemoryCapBytes, runCase } from './run-case.js';
+import { PROGRESS_INTERVAL_MS } from './thread-protocol.js';
+
+/** `workerData` the `loamwave worker` command gives its processor threads. */
+export interface ProcessorThreadData {
+  /** Largest memory a case may need, bytes. */
+  readonly maxMemoryBytes: number;
+  /** One Int32 in shared memory: set to 1 to stop running solves (the process is shutting down). */
+  readonly stopFlag: SharedArrayBuffer;
+}
+
+const data = (workerData ?? {}) as Partial<ProcessorThreadData>;
+const stop = data.stopFlag ? new Int32Array(data.stopFlag) : undefined;
+
+export default async function processLoamwaveJob(job: SandboxedJob, token?: string): Promise<JobResult> {
+  const parsed = QueueJobDataSchema.safeParse(job.data);
+  if (!parsed.success) throw new UnrecoverableError(`invalid_case: the job data is not a loamwave job (${parsed.error.issues[0]?.message})`);
+  let lastSentMs = 0;
+  try {
+    return runCase(parsed.data.case, parsed.data.job_id, {
+      maxMemoryBytes: data.maxMemoryBytes ?? defaultMemoryCapBytes(1),
+      shouldStop: stop ? () => Atomics.load(stop, 0) !== 0 : undefined,
+      onProgress: (fraction) => {
+        const now = Date.now();
+        if (now - lastSentMs < PROGRESS_INTERVAL_MS) return;
+        lastSentMs = now;
+        // Percent with one decimal; posted at once even while this thread stays busy.
+        job.updateProgress(Math.round(fraction * 1000) / 10).catch(() => undefined);
+      },
+    });
+  } catch (err) {
+    if (!(err instanceof CaseFailure)) throw err;
+    if (err.kind === 'cancelled' && token) {
+      await job.moveToWait(token);
+      throw new WaitingError();
+    }
+    if (!err.retryable) throw new UnrecoverableError(err.reason);
+    throw new Error(err.reason);
+  }
+}
