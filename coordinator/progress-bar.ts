@@ -114,6 +114,11 @@ export class ProgressBar {
   finish(state: ProgressState): void {
     if (this.finished) return;
     this.finished = true;
-    this.opts.stream.write(this.inPlace ? `\r${this.line(state)}${ESC}K\n` : this.line(state) + '\n');
+    if (this.inPlace) {
+      this.opts.stream.write(`\r${this.line(state)}${ESC}K\n`);
+      return;
+    }
+    // A plain line with the same counts was already printed: do not repeat it.
+    if (`${state.done}/${state.failed}` !== this.lastPlainText) this.opts.stream.write(this.line(state) + '\n');
   }
 }
