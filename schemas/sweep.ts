@@ -282,7 +282,7 @@ function renderPath(steps: PathStep[]): string {
   return steps.map((s, i) => (typeof s === 'number' ? `[${s}]` : i === 0 ? s : `.${s}`)).join('');
 }
 
-/** A deep copy of `target` with the value at `steps` set; objects on the way are created, arrays must exist. */
+/** A copy of `target` with the value at `steps` set (copied along the path, shared elsewhere; never mutates). */
 export function withValueAt(target: unknown, steps: readonly PathStep[], value: unknown): unknown {
   if (steps.length === 0) return value;
   const [head, ...rest] = steps;
