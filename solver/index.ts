@@ -30,6 +30,11 @@ export interface SolveOptions {
   onProgress?: (fraction: number) => void;
   /** Polled every few hundred steps; returning true stops the solve with SolveCancelledError. */
   shouldStop?: () => boolean;
+  /** Run exactly this many steps, ignoring the settling test (stability studies, benchmarks). */
+  fixedSteps?: number;
+  /** Called every `energyEverySteps` steps with Σ(Ex² + Ez² + (η0·Hy)²) over the grid, V²/m² (stability studies). */
+  onEnergy?: (step: number, energy: number) => void;
+  energyEverySteps?: number;
 }
 
 /** Relative change of the receiver phasors between two consecutive DFT windows taken as settled. */
@@ -177,7 +182,12 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   const fieldsByName = { ex: f.ex, ez: f.ez, hy: f.hy };
 
   const expectedSteps = sch.settleSteps + 2 * sch.windowSteps;
-  const maxSteps = c.run.max_steps;
+  // give up on settling after 200 windows (a field still changing then is reported, not hidden)
+  const maxSteps = Math.min(c.run.max_steps, sch.settleSteps + 200 * sch.windowSteps);
+  // Fields below 1e-7 of a dipole's free-space field at the receiver's range (η0·k·I·l/(4π·d), for the 1 A
+  // source over one cell) count as zero for the settling test: deep in the ionosphere they are round-off.
+  const kWave = omega / C0;
+  const floors = c.receivers.ranges_m.map((d) => (1e-7 * MU0 * C0 * kWave * dzs) / (4 * Math.PI * Math.max(d, C0 / c.frequency_hz)));
   const progressEvery = Math.max(1, Math.floor(expectedSteps / 100));
   let previous: { re: Float64Array; im: Float64Array } | undefined;
   let current: { re: Float64Array; im: Float64Array } | undefined;
@@ -201,8 +211,8 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
         throw new SolverDivergedError(`fields became non-finite by step ${n + 1}; lower grid.courant`);
       }
       if (previous) {
-        change = relativeChange(previous, current, slices.map((s) => s.ez));
-        if (change < SETTLED_RELATIVE_CHANGE) {
+        change = relativeChange(previous, current, slices.map((s) => s.ez), floors);
+        if (change < SETTLED_RELATIVE_CHANGE && opts.fixedSteps === undefined) {
           settled = true;
           n++;
           break;
@@ -210,7 +220,8 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
       }
     }
     n++;
-    if (n >= maxSteps && windowEnd) break;
+    if (opts.onEnergy && n % (opts.energyEverySteps ?? 1000) === 0) opts.onEnergy(n, fieldEnergy(f));
+    if (opts.fixedSteps !== undefined ? n >= opts.fixedSteps && current !== undefined : n >= maxSteps && windowEnd) break;
     if (n % 256 === 0 && opts.shouldStop?.()) throw new SolveCancelledError();
     if (opts.onProgress && n % progressEvery === 0) opts.onProgress(n / expectedSteps);
   }
@@ -268,19 +279,28 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   };
 }
 
+function fieldEnergy(f: YeeFields): number {
+  let e = 0;
+  const eta2 = (MU0 * C0) ** 2;
+  for (let i = 0; i < f.ex.length; i++) e += f.ex[i] * f.ex[i] + f.ez[i] * f.ez[i] + eta2 * f.hy[i] * f.hy[i];
+  return e;
+}
+
 function relativeChange(
   a: { re: Float64Array; im: Float64Array },
   b: { re: Float64Array; im: Float64Array },
   slices: Array<[number, number]>,
+  floors: number[],
 ): number {
   // compare the (unweighted) tap phasors of Ez at each receiver; floor at 1e-6 of the strongest tap
   let peak = 0;
   for (const [s, len] of slices) for (let t = s; t < s + len; t++) peak = Math.max(peak, Math.hypot(b.re[t], b.im[t]));
   let worst = 0;
-  for (const [s, len] of slices) {
+  for (let r = 0; r < slices.length; r++) {
+    const [s, len] = slices[r];
     for (let t = s; t < s + len; t++) {
       const d = Math.hypot(b.re[t] - a.re[t], b.im[t] - a.im[t]);
-      const m = Math.max(Math.hypot(b.re[t], b.im[t]), 1e-6 * peak);
+      const m = Math.max(Math.hypot(b.re[t], b.im[t]), 1e-6 * peak, floors[r]);
       worst = Math.max(worst, d / m);
     }
   }

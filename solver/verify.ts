@@ -7,6 +7,8 @@ import { runNormalIncidence } from './normal-incidence.js';
 import * as Cx from './references/complex.js';
 import { normalIncidenceReflection } from './references/fresnel.js';
 import { nortonFieldRatio, numericalDistance, nortonDelta } from './references/norton.js';
+import { oneLossyWallAttenuationNpPerM, parallelPlateGuideModeOverGround } from './references/parallel-plate-guide.js';
+import { surfaceResistanceOhm } from './references/fresnel.js';
 import { yeePhaseVelocityRatio } from './references/yee-dispersion.js';
 
 export interface CheckOutcome {
@@ -243,6 +245,90 @@ export const impedanceVsResolvedCheck: ReferenceCheck = {
   },
 };
 
+/** Least-squares slope of y against x. */
+function slope(x: number[], y: number[]): number {
+  const n = x.length;
+  const mx = x.reduce((a, b) => a + b, 0) / n;
+  const my = y.reduce((a, b) => a + b, 0) / n;
+  let sxy = 0;
+  let sxx = 0;
+  for (let i = 0; i < n; i++) {
+    sxy += (x[i] - mx) * (y[i] - my);
+    sxx += (x[i] - mx) ** 2;
+  }
+  return sxy / sxx;
+}
+
+/** Attenuation and phase constants fitted to |Ez| and the unwrapped phase along a planar guide. */
+export function fitGuideConstants(rangesM: number[], ez: Array<{ re: number; im: number }>): { alpha: number; beta: number } {
+  const lnA = ez.map((e) => Math.log(Math.hypot(e.re, e.im)));
+  const phase: number[] = [];
+  let prev = 0;
+  ez.forEach((e, i) => {
+    let p = Math.atan2(e.im, e.re);
+    if (i > 0) {
+      while (p - prev > Math.PI) p -= 2 * Math.PI;
+      while (p - prev < -Math.PI) p += 2 * Math.PI;
+    }
+    phase.push(p);
+    prev = p;
+  });
+  return { alpha: -slope(rangesM, lnA), beta: -slope(rangesM, phase) };
+}
+
+/**
+ * Planar guide, perfect ceiling 1 km up (below half a wavelength at 10 kHz), impedance floor: the attenuation and
+ * phase constants of the quasi-TEM mode vs the exact root of k_z·tan(k_z·d) = j·k·Δ (REFERENCES.md), and for sea
+ * water vs the one-lossy-wall perturbation Rs/(2η0·d) (Pozar, Microwave Engineering, 4th ed. 2012, §2.7, halved
+ * for one lossy wall).
+ */
+export const guideCheck: ReferenceCheck = {
+  id: 'planar-guide',
+  run: () => {
+    const f = 1e4;
+    const h = 1000;
+    const ranges: number[] = [];
+    for (let x = 20000; x <= 80000; x += 2000) ranges.push(x);
+    const out: CheckOutcome[] = [];
+    for (const [sigma, eps] of [
+      [1e-4, 10],
+      [4, 80],
+    ] as const) {
+      const r = solve(
+        parseCase({
+          geometry: 'planar',
+          frequency_hz: f,
+          ground: { model: 'impedance', segments: [{ start_m: 0, conductivity_s_per_m: sigma, relative_permittivity: eps }] },
+          upper_boundary: { kind: 'pec', height_m: h },
+          domain: { range_m: 100000, height_m: h },
+          grid: { cells_per_wavelength: 300 },
+          receivers: { ranges_m: ranges },
+        }),
+      );
+      const fit = fitGuideConstants(ranges, r.receivers.map((x) => x.ez));
+      const mode = parallelPlateGuideModeOverGround(f, h, sigma, eps);
+      const src = 'exact root of k_z·tan(k_z·d) = j·k·Δ for a perfect ceiling over an impedance floor (REFERENCES.md, derived)';
+      out.push(outcome(`guide α, ${sigma} S/m εr ${eps}, 10 kHz, ceiling 1 km (Np/m)`, src, mode.alphaNpPerM, fit.alpha, 0.01 * mode.alphaNpPerM, '', 5));
+      out.push(outcome(`guide β, ${sigma} S/m εr ${eps}, 10 kHz, ceiling 1 km (rad/m)`, src, mode.betaRadPerM, fit.beta, 5e-4 * mode.betaRadPerM, '', 6));
+      if (sigma === 4) {
+        const pert = oneLossyWallAttenuationNpPerM(surfaceResistanceOhm(f, sigma), h);
+        out.push(
+          outcome(
+            `guide α, sea water, vs TEM perturbation Rs/(2η0·d) (Np/m)`,
+            'Pozar, Microwave Engineering, 4th ed. 2012, §2.7 (parallel-plate line, one lossy wall: half of Rs/(η·d))',
+            pert,
+            fit.alpha,
+            0.01 * pert,
+            '',
+            5,
+          ),
+        );
+      }
+    }
+    return out;
+  },
+};
+
 /** Every check `loamwave verify` runs, in order. */
 export function referenceChecks(): ReferenceCheck[] {
   return [
@@ -255,5 +341,6 @@ export function referenceChecks(): ReferenceCheck[] {
     nortonCheck('planar', NORTON_NEAR),
     nortonCheck('axisymmetric', NORTON_FAR),
     impedanceVsResolvedCheck,
+    guideCheck,
   ];
 }

@@ -1,0 +1,19 @@
+// The solver against published references: every check of `loamwave verify`, asserted.
+// Each check names its source beside the comparison (solver/verify.ts); tolerances are justified there and here.
+import { describe, expect, it } from 'vitest';
+import { referenceChecks } from '../solver/verify.js';
+
+describe('solver reference checks (the `loamwave verify` table)', () => {
+  for (const check of referenceChecks()) {
+    it(`when ${check.id} runs then every comparison is within its tolerance`, () => {
+      const outcomes = check.run();
+      expect(outcomes.length).toBeGreaterThan(0);
+      for (const o of outcomes) {
+        // printed so a failure shows input, value, expected, difference and tolerance
+        const line = `${o.check}: expected ${o.expected}, got ${o.got}, tolerance ${o.tolerance} [${o.source}]`;
+        console.log(line);
+        expect(o.pass, line).toBe(true);
+      }
+    });
+  }
+});
