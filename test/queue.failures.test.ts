@@ -1,0 +1,94 @@
+// `run --redis` end to end with a deterministic failure among the jobs: the failing case is not retried (it fails
+// the same way every time), its reason reaches the ledger and runs.parquet, the good case is done, and the run
+// exits non-zero after writing the outputs.
+import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { DuckDBInstance } from '@duckdb/node-api';
+import Database from 'better-sqlite3';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ensureCompiled, PROJECT_ROOT } from './helpers/compiled.js';
+import { removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
+
+const CLI = join(PROJECT_ROOT, 'bin', 'loamwave.js');
+let redis: TestRedis;
+let scratch: string;
+const prefix = uniquePrefix('failures');
+const children: ChildProcess[] = [];
+
+beforeAll(async () => {
+  ensureCompiled();
+  redis = await startRedis();
+  scratch = mkdtempSync(join(tmpdir(), 'loamwave-failures-'));
+});
+
+afterAll(async () => {
+  for (const c of children) if (c.exitCode === null) c.kill('SIGKILL');
+  await removeKeys(redis.url, prefix);
+  await redis.stop();
+  rmSync(scratch, { recursive: true, force: true });
+});
+
+function start(args: string[]): { child: ChildProcess; log: () => string; exited: Promise<number | null> } {
+  const child = spawn(process.execPath, [CLI, ...args], { cwd: scratch, stdio: ['ignore', 'pipe', 'pipe'] });
+  children.push(child);
+  let text = '';
+  child.stdout!.on('data', (d) => (text += d));
+  child.stderr!.on('data', (d) => (text += d));
+  return { child, log: () => text, exited: new Promise((resolve) => child.once('exit', (code) => resolve(code))) };
+}
+
+describe('run --redis with a failing case', () => {
+  it('when one case is outside the impedance model then it fails once with its reason and the good case is done', async () => {
+    // At 300 kHz, σ = 1e-5 S/m, εr 15: loss tangent σ/(ωε0εr) ≈ 0.04 < 1, which the solver refuses every time;
+    // σ = 0.01 S/m gives about 40, inside the model.
+    const sweep = join(scratch, 'saltmarsh-lf.yaml');
+    writeFileSync(
+      sweep,
+      [
+        'name: saltmarsh-lf',
+        'base:',
+        '  frequency_hz: 300000',
+        '  ground: { model: impedance, segments: [{ start_m: 0, conductivity_s_per_m: 0.01, relative_permittivity: 15 }] }',
+        '  domain: { range_m: 20000, height_m: 5000 }',
+        '  grid: { cells_per_wavelength: 8 }',
+        '  receivers: { ranges_m: [5000, 15000] }',
+        'vary:',
+        '  ground.segments[0].conductivity_s_per_m: { values: [0.01, 0.00001] }',
+        '',
+      ].join('\n'),
+    );
+    const out = join(scratch, 'out');
+    const q = ['--redis', redis.url, '--prefix', prefix];
+    const worker = start(['worker', ...q, '--sweep', 'saltmarsh-lf']);
+    const run = start(['run', sweep, '--out', out, '--json', ...q]);
+    const code = await run.exited;
+    expect(code, run.log()).toBe(1);
+    expect(run.log()).toContain('1 job(s) failed');
+
+    const db = new Database(join(out, 'ledger.sqlite'), { readonly: true });
+    const rows = db.prepare('SELECT status, attempts, error FROM jobs ORDER BY idx').all() as Array<{ status: string; attempts: number; error: string | null }>;
+    db.close();
+    expect(rows[0]).toMatchObject({ status: 'done', error: null });
+    expect(rows[1].status).toBe('failed');
+    expect(rows[1].error).toMatch(/^invalid_case: .*loss tangent/);
+    // Unrecoverable: one attempt of the three a crash would get.
+    expect(rows[1].attempts).toBe(1);
+
+    const duck = await DuckDBInstance.create(':memory:');
+    const conn = await duck.connect();
+    try {
+      const reader = await conn.runAndReadAll(`SELECT status, error FROM read_parquet('${join(out, 'runs.parquet')}') ORDER BY "index"`);
+      const got = reader.getRowObjects();
+      expect(got.map((r) => r.status)).toEqual(['done', 'failed']);
+      expect(String(got[1].error)).toContain('loss tangent');
+    } finally {
+      conn.closeSync();
+      duck.closeSync();
+    }
+
+    worker.child.kill('SIGTERM');
+    expect(await worker.exited).toBe(0);
+  });
+});
