@@ -29,17 +29,19 @@ export function queueTarget(opts: { redis: string; redisCa?: string; prefix: str
 
 /** The open handles of one sweep's queue; `close()` is safe to call twice and runs every clean-up. */
 export class QueueHandles {
-  readonly queue: Queue;
   readonly client: Redis;
+  private queueHandle: Queue | undefined;
   private events: QueueEvents | undefined;
   private closed = false;
 
   private constructor(readonly target: QueueTarget) {
-    this.queue = new Queue(target.queueName, { connection: target.connection, prefix: target.prefix });
     this.client = new Redis({ ...target.connection, lazyConnect: true });
   }
 
-  /** Connect (one line naming the URL when Redis cannot be reached) and return the server's warnings. */
+  /**
+   * Connect (one line naming the URL when Redis cannot be reached or refuses the password) and return the
+   * server's warnings. The BullMQ handles open only after this check, so a bad URL never prints their errors.
+   */
   static async open(target: QueueTarget): Promise<{ handles: QueueHandles; warnings: string[] }> {
     const h = new QueueHandles(target);
     // Fail fast instead of retrying forever when the server is not there.
@@ -55,9 +57,21 @@ export class QueueHandles {
     return { handles: h, warnings };
   }
 
+  /** The sweep's BullMQ queue. */
+  get queue(): Queue {
+    if (!this.queueHandle) {
+      this.queueHandle = new Queue(this.target.queueName, { connection: this.target.connection, prefix: this.target.prefix });
+      this.queueHandle.on('error', (e) => process.stderr.write(`warning: queue connection: ${e.message}\n`));
+    }
+    return this.queueHandle;
+  }
+
   /** Events of the queue (completed, failed, progress), opened on first use. */
   queueEvents(): QueueEvents {
-    this.events ??= new QueueEvents(this.target.queueName, { connection: this.target.connection, prefix: this.target.prefix });
+    if (!this.events) {
+      this.events = new QueueEvents(this.target.queueName, { connection: this.target.connection, prefix: this.target.prefix });
+      this.events.on('error', (e) => process.stderr.write(`warning: queue events connection: ${e.message}\n`));
+    }
     return this.events;
   }
 
@@ -69,7 +83,7 @@ export class QueueHandles {
   async close(): Promise<void> {
     if (this.closed) return;
     this.closed = true;
-    const steps = [() => this.events?.close(), () => this.queue.close(), () => (this.client.status === 'ready' ? this.client.quit() : this.client.disconnect())];
+    const steps = [() => this.events?.close(), () => this.queueHandle?.close(), () => (this.client.status === 'ready' ? this.client.quit() : this.client.disconnect())];
     for (const step of steps) {
       try {
         await step();
