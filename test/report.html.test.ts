@@ -2,8 +2,6 @@
 // law, fields from the perfect-ground reference), checked as text and in headless Chromium.
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { resolve } from 'node:path';
-import { pathToFileURL } from 'node:url';
-import { chromium } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { convergenceTable, type ConvergenceRun } from '../coordinator/analysis/grid-convergence.js';
 import { saltelliDesign, saltelliIndices, saltelliRows } from '../coordinator/analysis/saltelli.js';
@@ -11,6 +9,7 @@ import { ReportDataSchema, type FieldSeries, type ReportData } from '../coordina
 import { buildReportHtml, escapeHtml } from '../coordinator/report/report-html.js';
 import { residualPhaseDeg } from '../coordinator/report/report-plots.js';
 import { C0 } from '../solver/constants.js';
+import { checkReportPage, launchChromium, type Browser } from './report.page-check.js';
 
 const OUT = resolve('test-output');
 
@@ -135,31 +134,16 @@ describe('report page', () => {
   });
 
   describe('in headless Chromium', () => {
-    type Browser = Awaited<ReturnType<typeof chromium.launch>>;
     let browser: Browser;
     beforeAll(async () => {
-      browser = await chromium.launch({
-        executablePath: '/usr/bin/chromium',
-        args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run', '--disable-quic'],
-      });
+      browser = await launchChromium();
     });
     afterAll(async () => {
       await browser?.close();
     });
 
     it('when opened then every plot renders marks, nothing errs and nothing is fetched', async () => {
-      const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
-      const errors: string[] = [];
-      const requests: string[] = [];
-      page.on('console', (m) => {
-        if (m.type() === 'error') errors.push(m.text());
-      });
-      page.on('pageerror', (e) => errors.push(String(e)));
-      const url = pathToFileURL(resolve(OUT, 'report.html')).href;
-      page.on('request', (r) => {
-        if (r.url() !== url) requests.push(r.url());
-      });
-      await page.goto(url, { waitUntil: 'load' });
+      const page = await checkReportPage(browser, resolve(OUT, 'report.html'), resolve(OUT, 'report.png'));
       const expected = [
         'field-db-frequency_hz',
         'field-phase-frequency_hz',
@@ -170,21 +154,14 @@ describe('report page', () => {
         'sensitivity-0',
         'sensitivity-1',
       ];
-      const found = await page.$$eval('figure.plot', (figs) => figs.map((f) => f.getAttribute('data-plot')));
-      expect(found.sort()).toEqual([...expected].sort());
+      expect([...page.plots].sort()).toEqual([...expected].sort());
       for (const id of expected) {
-        // Data marks are the role-mark groups vega writes; each must hold drawn paths with a non-empty outline.
-        const marks = await page.$$eval(`figure[data-plot="${id}"] svg g.role-mark path`, (paths) =>
-          paths.filter((p) => (p.getAttribute('d') ?? '').length > 2).length,
-        );
-        expect(marks, id).toBeGreaterThan(0);
-        const box = await page.$eval(`figure[data-plot="${id}"] svg`, (s) => s.getBoundingClientRect().width);
-        expect(box, id).toBeGreaterThan(200);
+        expect(page.marks[id].paths, id).toBeGreaterThan(0);
+        expect(page.marks[id].widthPx, id).toBeGreaterThan(200);
       }
-      expect(errors).toEqual([]);
-      expect(requests).toEqual([]);
-      await page.screenshot({ path: resolve(OUT, 'report.png'), fullPage: true });
-      await page.close();
+      expect(page.errors).toEqual([]);
+      expect(page.requests).toEqual([]);
+      expect(page.runRows).toBe(6);
     });
   });
 });

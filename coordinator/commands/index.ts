@@ -9,6 +9,7 @@ import { registerSubmit } from './submit.js';
 import { registerWorker } from './worker.js';
 import { registerCollect } from './collect.js';
 import { registerStatus } from './status.js';
+import { registerReport } from './report.js';
 
 export function registerCommands(program: Command): void {
   registerPlan(program);
@@ -20,4 +21,5 @@ export function registerCommands(program: Command): void {
   registerWorker(program);
   registerCollect(program);
   registerStatus(program);
+  registerReport(program);
 }

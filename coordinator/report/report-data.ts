@@ -80,6 +80,8 @@ export const ReportDataSchema = z.strictObject({
   field_series: z.array(FieldSeriesSchema),
   convergence: z.array(ConvergenceRowSchema),
   sensitivity: z.array(SensitivityRowSchema),
+  /** How the sensitivity rows were obtained, when the reader needs to know (e.g. which grid level they use). */
+  sensitivity_note: z.string().nullable().default(null),
   runs: z.strictObject({
     columns: z.array(z.string()),
     rows: z.array(z.array(CellSchema)),
@@ -88,4 +90,6 @@ export const ReportDataSchema = z.strictObject({
   }),
   warnings: z.array(ReportWarningSchema),
 });
-export type ReportData = z.infer<typeof ReportDataSchema>;
+export type ReportData = z.output<typeof ReportDataSchema>;
+/** Report data as a caller may give it (defaults not yet filled in). */
+export type ReportDataInput = z.input<typeof ReportDataSchema>;

@@ -2,7 +2,7 @@
 // else fetched) built from a ReportData structure. Pure apart from rendering the plots: data in, a string out.
 import { ConvergenceRowSchema, type ConvergenceRow } from '../analysis/grid-convergence.js';
 import type { SensitivityRow } from '../analysis/sensitivity-table.js';
-import { ReportDataSchema, type Cell, type ReportData, type ReportWarning } from './report-data.js';
+import { ReportDataSchema, type Cell, type ReportData, type ReportDataInput, type ReportWarning } from './report-data.js';
 import { convergencePlots, fieldPlots, renderSvg, sensitivityPlots, type Plot } from './report-plots.js';
 
 /** Most rows shown in the runs, convergence and sensitivity tables and in the warnings list. */
@@ -82,10 +82,16 @@ function countBy(items: readonly string[]): Record<string, number> {
   return out;
 }
 
+/** `{"frequency_hz":20000}` → `frequency_hz = 20000`: the group's other inputs, readable. */
+export function groupText(group: string): string {
+  const entries = Object.entries(JSON.parse(group) as Record<string, unknown>);
+  return entries.length === 0 ? '(all runs)' : entries.map(([k, v]) => `${k} = ${String(v)}`).join(', ');
+}
+
 function convergenceTableHtml(rows: readonly ConvergenceRow[]): string {
   const columns = ['group', 'output', 'range (km)', 'levels', 'finest', 'order p', 'extrapolated', 'GCI fine', 'uncertainty', 'behaviour', 'verdict', 'what to do'];
   const body = rows.map((r) => [
-    r.group === '{}' ? '(all)' : r.group,
+    groupText(r.group),
     r.output,
     r.range_m / 1000,
     r.levels,
@@ -172,7 +178,7 @@ footer { font-size: 12px; color: #666; padding: 0 32px 24px; }
 `;
 
 /** Build the report page. Validates `data` first, so a malformed structure fails loudly here and not in a browser. */
-export async function buildReportHtml(input: ReportData): Promise<string> {
+export async function buildReportHtml(input: ReportDataInput): Promise<string> {
   const data = ReportDataSchema.parse(input);
   for (const row of data.convergence) ConvergenceRowSchema.parse(row);
   const fieldFigures = await Promise.all(fieldPlots(data.field_series, data.sweep.varied).map(figure));
@@ -189,7 +195,7 @@ export async function buildReportHtml(input: ReportData): Promise<string> {
   const sensitivity =
     data.sensitivity.length === 0
       ? '<p>No sensitivity indices (they need a sampled design, or a full factorial grid with two or more levels per input).</p>'
-      : `<div class="plots">${sensFigures.join('\n')}</div><h3>All indices</h3>${sensitivityTableHtml(data.sensitivity)}`;
+      : `${data.sensitivity_note ? `<p class="note">${escapeHtml(data.sensitivity_note)}</p>` : ''}<div class="plots">${sensFigures.join('\n')}</div><h3>All indices</h3>${sensitivityTableHtml(data.sensitivity)}`;
   return `<!DOCTYPE html>
 <html lang="en">
 <head>

@@ -187,56 +187,80 @@ const MEASURE_LABEL: Record<string, string> = {
   mu_star: 'μ*',
 };
 
-/** Horizontal bars of the chosen measures per parameter, with the bootstrap interval as a rule where there is one. */
+/** One colour per measure across every chart (Vega's default category colours). */
+const MEASURE_COLOUR: Record<string, string> = {
+  'first order S': '#4c78a8',
+  'total order ST': '#f58518',
+  SRC: '#54a24b',
+  'μ*': '#b279a2',
+};
+
+/** Measures that share an axis: Sobol' indices (fractions of variance), SRCs (−1…1), μ* (the output's unit). */
+const FAMILIES: ReadonlyArray<{ measures: readonly string[]; axis: string; reading: string }> = [
+  { measures: ['first_order', 'total_order'], axis: "Sobol' index", reading: 'share of the output variance due to the input alone (S) and with its interactions (ST)' },
+  { measures: ['src'], axis: 'standardised regression coefficient', reading: 'change of the output, in standard deviations, per standard deviation of the input (linear fit; see R² in the table)' },
+  { measures: ['mu_star'], axis: "μ* (output's unit)", reading: "mean absolute change of the output, in its own unit, as the input steps across its whole range (in decades for inputs listed or sampled in log)" },
+];
+
+/** One bar chart per output and family of measures, with the bootstrap interval as a rule where there is one. */
 export function sensitivityPlots(rows: readonly SensitivityRow[]): Plot[] {
-  const shown = rows.filter((r) => r.measure in MEASURE_LABEL);
-  const outputs = [...new Set(shown.map((r) => r.output))].slice(0, MAX_SENSITIVITY_CHARTS);
-  return outputs.map((output, k) => {
-    const values = shown
-      .filter((r) => r.output === output)
-      .map((r) => ({
+  const outputs = [...new Set(rows.map((r) => r.output))];
+  const plots: Plot[] = [];
+  for (const output of outputs) {
+    for (const family of FAMILIES) {
+      if (plots.length >= MAX_SENSITIVITY_CHARTS) return plots;
+      const mine = rows.filter((r) => r.output === output && family.measures.includes(r.measure));
+      if (mine.length === 0) continue;
+      const values = mine.map((r) => ({
         parameter: r.parameter,
         measure: MEASURE_LABEL[r.measure],
         value: r.value,
         low: r.ci_low ?? r.value,
         high: r.ci_high ?? r.value,
       }));
-    const parameters = [...new Set(values.map((v) => v.parameter))];
-    const measures = [...new Set(values.map((v) => v.measure))];
-    const hasInterval = shown.some((r) => r.output === output && r.ci_low !== null);
-    return {
-      id: `sensitivity-${k}`,
-      title: `Sensitivity of ${output}`,
-      caption:
-        `Bars: ${measures.join(', ')} per varied input` +
-        (hasInterval ? '; black lines: bootstrap confidence intervals' : '') +
-        '. Larger means the output depends more on that input.',
-      spec: {
-        $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
-        width: 300,
-        height: Math.max(60, parameters.length * measures.length * 16),
-        data: { values },
-        encoding: {
-          y: { field: 'parameter', type: 'nominal', title: null, sort: parameters, axis: { labelLimit: 0 } },
-          yOffset: { field: 'measure', type: 'nominal', sort: measures },
-        },
-        layer: [
-          {
-            mark: { type: 'bar', height: { band: 1 } },
-            encoding: {
-              x: { field: 'value', type: 'quantitative', title: 'index' },
-              color: { field: 'measure', type: 'nominal', title: 'measure', sort: measures },
+      const parameters = [...new Set(values.map((v) => v.parameter))];
+      const measures = [...new Set(values.map((v) => v.measure))];
+      const hasInterval = mine.some((r) => r.ci_low !== null);
+      plots.push({
+        id: `sensitivity-${plots.length}`,
+        title: `Sensitivity of ${output}: ${measures.join(', ')}`,
+        caption:
+          `Bars: ${family.reading}` +
+          (hasInterval ? `; black lines: ${Math.round(100 * (mine[0].confidence ?? 0.95))} % bootstrap intervals` : '') +
+          '.',
+        spec: {
+          $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
+          width: 300,
+          height: Math.max(40, parameters.length * measures.length * 16),
+          data: { values },
+          encoding: {
+            y: { field: 'parameter', type: 'nominal', title: null, sort: parameters, axis: { labelLimit: 0 } },
+            yOffset: { field: 'measure', type: 'nominal', sort: measures },
+          },
+          layer: [
+            {
+              mark: { type: 'bar', height: { band: 1 } },
+              encoding: {
+                x: { field: 'value', type: 'quantitative', title: family.axis },
+                color: {
+                  field: 'measure',
+                  type: 'nominal',
+                  title: 'measure',
+                  scale: { domain: measures, range: measures.map((m) => MEASURE_COLOUR[m]) },
+                },
+              },
             },
-          },
-          {
-            mark: { type: 'rule', color: '#222', strokeWidth: 1.5 },
-            encoding: { x: { field: 'low', type: 'quantitative' }, x2: { field: 'high' } },
-          },
-        ],
-        config: CONFIG,
-      } as TopLevelSpec,
-    };
-  });
+            {
+              mark: { type: 'rule', color: '#222', strokeWidth: 1.5 },
+              encoding: { x: { field: 'low', type: 'quantitative' }, x2: { field: 'high' } },
+            },
+          ],
+          config: CONFIG,
+        } as TopLevelSpec,
+      });
+    }
+  }
+  return plots;
 }
 
 /** Compile a Vega-Lite spec and render it to an SVG string with vega's headless View. */
