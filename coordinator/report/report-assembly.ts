@@ -131,6 +131,26 @@ function outputsOf(tables: FolderTables, runs: readonly RunRecord[]): Map<string
   return outputs;
 }
 
+/**
+ * The runs that count for regression and elementary effects: the resolution axis is a numerical setting, not an
+ * input, so when it varies only the runs on its finest level count (grid error must not pass for sensitivity).
+ */
+export function finestLevelRuns(tables: FolderTables, done: readonly RunRecord[]): { runs: readonly RunRecord[]; note?: string } {
+  const sweep = tables.sweep;
+  if (sweep.resolution_axis === undefined || !(sweep.resolution_axis in sweep.vary) || sweep.design.kind === 'saltelli') {
+    return { runs: done };
+  }
+  const column = columnNameFor(sweep.resolution_axis);
+  const levels = done.map((r) => num(r[column])).filter((v): v is number => v !== undefined);
+  if (levels.length === 0) return { runs: done };
+  const finest = column.endsWith('cell_size_m') ? Math.min(...levels) : Math.max(...levels);
+  const runs = done.filter((r) => num(r[column]) === finest);
+  return {
+    runs,
+    note: `Sensitivity uses the ${runs.length} runs on the finest level of ${sweep.resolution_axis} (${finest}); coarser levels only enter the grid convergence study.`,
+  };
+}
+
 /** Sensitivity rows for the sweep's design, from the done runs; notes why when they cannot be computed. */
 export function computeSensitivity(tables: FolderTables, notes: Notes): SensitivityRow[] {
   const sweep = tables.sweep;
@@ -162,11 +182,14 @@ export function computeSensitivity(tables: FolderTables, notes: Notes): Sensitiv
       }
       const missing = y.filter((v) => Number.isNaN(v)).length;
       if (missing > 0) {
-        notes.warnings.push({
-          kind: 'solver',
-          job_id: null,
-          message: `sensitivity of ${output}: ${missing} of ${y.length} Saltelli runs have no result; Sobol' indices need them all (finish or rerun the failed jobs)`,
-        });
+        // One warning for the sweep, naming the first output hit: every output lacks the same runs.
+        if (rows.length === 0 && !notes.warnings.some((w) => w.message.includes('Saltelli runs have no result'))) {
+          notes.warnings.push({
+            kind: 'solver',
+            job_id: null,
+            message: `sensitivity of ${output} and the other outputs: ${missing} of ${y.length} Saltelli runs have no result; Sobol' indices need them all (finish or rerun the failed jobs)`,
+          });
+        }
         continue;
       }
       const indices = saltelliIndices(y, { n, d, skip: 0, seed: design.seed });
@@ -175,15 +198,10 @@ export function computeSensitivity(tables: FolderTables, notes: Notes): Sensitiv
     return rows;
   }
   // Latin hypercube and full factorial: SRC on the inputs (log10 of those sampled or listed in decades), and on a
-  // full factorial grid the elementary effects too. The resolution axis is a numerical setting, not an input:
-  // only the runs on its finest level count, so grid error does not pass for sensitivity.
-  let atFinest = done;
-  if (resolutionColumn !== undefined && params.some((p) => p.column === resolutionColumn)) {
-    const levels = done.map((r) => num(r[resolutionColumn])).filter((v): v is number => v !== undefined);
-    const finest = resolutionColumn.endsWith('cell_size_m') ? Math.min(...levels) : Math.max(...levels);
-    atFinest = done.filter((r) => num(r[resolutionColumn]) === finest);
-    notes.sensitivityNote = `Sensitivity uses the ${atFinest.length} runs on the finest level of ${sweep.resolution_axis} (${finest}); coarser levels only enter the grid convergence study.`;
-  }
+  // full factorial grid the elementary effects too, over the runs on the finest grid level.
+  const finest = finestLevelRuns(tables, done);
+  const atFinest = finest.runs;
+  if (finest.note) notes.sensitivityNote = finest.note;
   const physical = params.filter((p) => p.column !== resolutionColumn);
   const numeric = physical.filter((p) => atFinest.every((r) => num(r[p.column]) !== undefined));
   const isLog = (path: string) => ['log', 'log_uniform'].includes(generatorKind(sweep.vary[path]));
@@ -258,6 +276,8 @@ export function assembleReportData(tables: FolderTables, options: AssemblyOption
   const notes: Notes = { warnings: [] };
   const convergence = tables.convergence ?? computeConvergence(tables, options);
   const sensitivity = tables.sensitivity ?? computeSensitivity(tables, notes);
+  // A sensitivity table read from the folder was made the same way: say so there too.
+  if (tables.sensitivity !== null) notes.sensitivityNote = finestLevelRuns(tables, tables.runs.filter((r) => r.status === 'done')).note;
   const params = paramColumnsOf(sweep);
   const byJob = fieldsByJob(tables.fields);
   const field_series: FieldSeries[] = tables.runs.flatMap((run) => {
