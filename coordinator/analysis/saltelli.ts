@@ -96,7 +96,7 @@ export interface SaltelliIndicesOptions {
 }
 
 /** Point estimates of S_i and S_Ti from the runs j listed in `idx` (all runs when idx is the identity). */
-function estimate(y: ArrayLike<number>, layout: SaltelliLayout, idx: ArrayLike<number>): { s1: number[]; st: number[] } {
+function estimate(y: ArrayLike<number>, layout: SaltelliLayout, idx: ArrayLike<number>): { s1: number[]; st: number[]; variance: number } {
   const { n, d } = layout;
   const m = idx.length;
   // Total variance over the union of f(A) and f(B) (Saltelli et al. 2010, §4).
@@ -129,7 +129,7 @@ function estimate(y: ArrayLike<number>, layout: SaltelliLayout, idx: ArrayLike<n
     s1.push(first / m / variance);
     st.push(total / (2 * m) / variance);
   }
-  return { s1, st };
+  return { s1, st, variance };
 }
 
 /** Percentile of a sorted array, linear interpolation between order statistics (Hyndman & Fan 1996, type 7). */
@@ -171,16 +171,10 @@ export function saltelliIndices(y: ArrayLike<number>, layout: SaltelliLayout, op
       ? { value, ci_low: percentileSorted(sorted, lowQ), ci_high: percentileSorted(sorted, 1 - lowQ) }
       : { value, ci_low: value, ci_high: value };
   };
-  let mean = 0;
-  for (let k = 0; k < 2 * n; k++) mean += y[k];
-  mean /= 2 * n;
-  let variance = 0;
-  for (let k = 0; k < 2 * n; k++) variance += (y[k] - mean) ** 2;
-  variance /= 2 * n;
   return {
     firstOrder: point.s1.map((v, i) => interval(v, bootS1[i])),
     totalOrder: point.st.map((v, i) => interval(v, bootST[i])),
-    variance,
+    variance: point.variance,
     confidence,
     bootstrapResamples: resamples,
   };
