@@ -1,5 +1,6 @@
 // Merges a sweep's ledger into its output folder: `runs.parquet` (one row per job), `fields/` (one row per job and
-// receiver, Hive-partitioned as `part=<n>` by blocks of jobs) and a copy of the sweep file. Everything is written
+// receiver, Hive-partitioned as `part=<n>` by blocks of jobs), a copy of the sweep file, then the analysis tables
+// (`convergence.parquet`, and `sensitivity.parquet` on request) and `report.html` computed from them. Everything is written
 // under a staging folder and renamed into place at the end, so a crash never leaves half a table; rows stream
 // from the ledger, so memory is bounded by a row group, not by the sweep.
 import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
@@ -7,6 +8,7 @@ import { join } from 'node:path';
 import type { Sweep } from '../schemas/sweep.js';
 import type { JobResult } from '../schemas/result.js';
 import type { Ledger, LedgerJob } from './ledger.js';
+import { ANALYSIS_FILES, writeAnalysisTables } from './analysis-tables.js';
 import { columnNameFor, ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet-table.js';
 import { expandSweep, type ExpandedJob } from './sweep-expand.js';
 
@@ -17,6 +19,10 @@ export interface OutputOptions {
   readonly fieldRowsPerFile?: number;
   /** Rows per Parquet row group (the memory bound). @defaultValue 8192 */
   readonly rowGroupRows?: number;
+  /** Also write convergence.parquet and report.html. @defaultValue true */
+  readonly analysis?: boolean;
+  /** Also write sensitivity.parquet (needs `analysis`). @defaultValue false (see analysis-tables.ts) */
+  readonly sensitivityTable?: boolean;
 }
 
 export interface OutputSummary {
@@ -25,6 +31,9 @@ export interface OutputSummary {
   /** Jobs per `part=<n>` partition of `fields/`. */
   jobsPerPart: number;
   parts: number;
+  /** Rows of convergence.parquet and sensitivity.parquet (null when `analysis` is off). */
+  convergenceRows: number | null;
+  sensitivityRows: number | null;
 }
 
 /** File names inside the output folder. */
@@ -231,8 +240,22 @@ export async function writeOutputs(
     }
 
     writeFileSync(join(staging, sweepCopyName(sweepText)), sweepText);
-    publish(staging, outDir, [OUTPUT_FILES.runs, sweepCopyName(sweepText)], OUTPUT_FILES.fields);
-    return { runs: jobs.length, fieldRows, jobsPerPart, parts: writers.size };
+    const files: string[] = [OUTPUT_FILES.runs, sweepCopyName(sweepText)];
+    let analysis: { convergence: number; sensitivity: number | null } | null = null;
+    if (options.analysis ?? true) {
+      analysis = await writeAnalysisTables(staging, { sensitivity: options.sensitivityTable ?? false });
+      files.push(ANALYSIS_FILES.convergence, ANALYSIS_FILES.report);
+      if (analysis.sensitivity !== null) files.push(ANALYSIS_FILES.sensitivity);
+    }
+    publish(staging, outDir, files, OUTPUT_FILES.fields);
+    return {
+      runs: jobs.length,
+      fieldRows,
+      jobsPerPart,
+      parts: writers.size,
+      convergenceRows: analysis?.convergence ?? null,
+      sensitivityRows: analysis?.sensitivity ?? null,
+    };
   } finally {
     rmSync(staging, { recursive: true, force: true });
   }

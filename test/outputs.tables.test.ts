@@ -8,6 +8,7 @@ import { DuckDBInstance, type DuckDBConnection } from '@duckdb/node-api';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { JobResult } from '../schemas/result.js';
 import { solve } from '../solver/index.js';
+import { convergenceTable } from '../coordinator/analysis/grid-convergence.js';
 import { Ledger } from '../coordinator/ledger.js';
 import { writeOutputs } from '../coordinator/outputs.js';
 import { expandSweep, type ExpandedJob } from '../coordinator/sweep-expand.js';
@@ -176,24 +177,66 @@ describe('outputs', () => {
     ledger.close();
   });
 
-  it('when a Saltelli sweep is written then design_role and design_sample say where each run sits', async () => {
-    const s = parseSweep({
+  it('when a Saltelli sweep is written then design_role and design_sample say where each run sits, and sensitivity.parquet holds its indices', async () => {
+    const input = {
       name: 'saltelli-out',
-      base: { frequency_hz: 20000, ground: { model: 'pec' }, domain: { range_m: 60000, height_m: 20000 }, receivers: { ranges_m: [10000] } },
+      base: { frequency_hz: 20000, ground: { model: 'pec' }, domain: { range_m: 60000, height_m: 20000 }, grid: { cells_per_wavelength: 8 }, receivers: { ranges_m: [10000, 30000] } },
       design: { kind: 'saltelli', samples: 2, seed: 5 },
-      vary: { frequency_hz: { uniform: { from: 15000, to: 25000 } }, 'source.height_m': { uniform: { from: 0, to: 100 } } },
-    });
+      vary: { frequency_hz: { uniform: { from: 15000, to: 25000 } }, 'source.power_w': { log_uniform: { from: 100, to: 10000 } } },
+    };
+    const text = JSON.stringify(input);
+    const s = parseSweep(input);
     const js = expandSweep(s);
     const out = freshDir();
     const ledger = Ledger.open(out);
     ledger.addJobs(js);
-    await writeOutputs(ledger, s, '{}', out, { jobs: js });
+    for (const j of js) ledger.commitResult(realResult(j));
+    const summary = await writeOutputs(ledger, s, text, out, { jobs: js, sensitivityTable: true });
     const got = await rows(`SELECT design_role, design_sample, frequency_hz FROM read_parquet('${out}/runs.parquet') ORDER BY index`);
     expect(got.map((r) => [r.design_role, Number(r.design_sample)])).toEqual([
       ['A', 0], ['A', 1], ['B', 0], ['B', 1], ['AB_0', 0], ['AB_0', 1], ['AB_1', 0], ['AB_1', 1],
     ]);
     got.forEach((r, i) => expect(Object.is(r.frequency_hz, js[i].params.frequency_hz)).toBe(true));
-    expect(readFileSync(join(out, 'sweep.json'), 'utf8')).toBe('{}');
+    expect(readFileSync(join(out, 'sweep.json'), 'utf8')).toBe(text);
+    const sens = await rows(`SELECT * FROM read_parquet('${out}/sensitivity.parquet')`);
+    expect(sens.length).toBe(summary.sensitivityRows);
+    expect(new Set(sens.map((r) => r.measure))).toEqual(new Set(['first_order', 'total_order']));
+    expect(new Set(sens.map((r) => r.parameter))).toEqual(new Set(['frequency_hz', 'source_power_w']));
+    // The tables and the page are one set: the report was written from the same folder.
+    expect(readFileSync(join(out, 'report.html'), 'utf8')).toContain('<html');
+    ledger.close();
+  });
+
+  it('when a resolution study is written then convergence.parquet holds, per receiver, exactly what the analysis computes from runs and fields', async () => {
+    const input = {
+      name: 'resolution-out',
+      base: {
+        frequency_hz: 20000,
+        ground: { model: 'impedance', segments: [{ start_m: 0, conductivity_s_per_m: 0.01, relative_permittivity: 30 }] },
+        domain: { range_m: 60000, height_m: 20000 },
+        receivers: { ranges_m: [10000, 30000] },
+      },
+      vary: { 'grid.cells_per_wavelength': { values: [8, 12, 16] } },
+    };
+    const s = parseSweep(input);
+    const js = expandSweep(s);
+    const out = freshDir();
+    const ledger = Ledger.open(out);
+    ledger.addJobs(js);
+    const results = js.map(realResult);
+    results.forEach((r) => ledger.commitResult(r));
+    await writeOutputs(ledger, s, JSON.stringify(input), out, { jobs: js });
+    const conv = await rows(`SELECT * FROM read_parquet('${out}/convergence.parquet') ORDER BY output, range_m`);
+    // Independent recomputation from the ledger's results with the analysis module's public function.
+    const expected = convergenceTable(
+      js.map((j, k) => ({ params: { grid_cells_per_wavelength: j.params['grid.cells_per_wavelength'] }, resolution: j.params['grid.cells_per_wavelength'] as number, receivers: results[k].receivers })),
+      { axis: 'cells_per_wavelength', resolutionColumn: 'grid_cells_per_wavelength' },
+    ).sort((a, b) => (a.output < b.output ? -1 : a.output > b.output ? 1 : a.range_m - b.range_m));
+    expect(conv.length).toBe(4);
+    expect(conv.length).toBe(expected.length);
+    conv.forEach((row, i) => {
+      for (const [k, v] of Object.entries(expected[i])) expectSame(row[k], v, `convergence row ${i} ${k}`);
+    });
     ledger.close();
   });
 });

@@ -1,0 +1,68 @@
+// convergence.parquet (and, on request, sensitivity.parquet): the analysis tables of a sweep, computed from the runs
+// and fields tables just written (read back through the report's folder reader, so the files and the report agree),
+// with Parquet columns derived from the row schemas, which are the contract. Also the report page, from the same tables.
+import { join } from 'node:path';
+import { z } from 'zod';
+import { ConvergenceRowSchema } from './analysis/grid-convergence.js';
+import { SensitivityRowSchema } from './analysis/sensitivity-table.js';
+import { writeReport } from './commands/report.js';
+import { ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet-table.js';
+import { computeConvergence, computeSensitivity } from './report/report-assembly.js';
+import { readReportFolder } from './report/report-folder.js';
+import { SOLVER_VERSION } from '../solver/version.js';
+
+type JsonType = string | string[] | undefined;
+
+/** A row schema's columns: JSON Schema `number` → DOUBLE, `integer` → INT64, `string` → UTF8, `boolean` → BOOLEAN. */
+export function columnsFromRowSchema(schema: z.ZodObject): Array<ColumnSpec & { nullable: boolean }> {
+  const json = z.toJSONSchema(schema, { io: 'output' }) as { properties: Record<string, { type?: JsonType }> };
+  return Object.entries(json.properties).map(([name, prop]) => {
+    const types = ([] as string[]).concat(prop.type ?? []);
+    const base = types.filter((t) => t !== 'null');
+    if (base.length !== 1) throw new Error(`columnsFromRowSchema: column ${name} has no single type (${types.join(', ')})`);
+    const map: Record<string, ColumnSpec['type']> = { number: 'DOUBLE', integer: 'INT64', string: 'UTF8', boolean: 'BOOLEAN' };
+    const type = map[base[0]];
+    if (!type) throw new Error(`columnsFromRowSchema: column ${name} is a ${base[0]}, not a flat value`);
+    return { name, type, nullable: types.includes('null') };
+  });
+}
+
+/** Write rows of a flat row schema to one Parquet file; non-finite numbers become null where the schema allows null. */
+export async function writeRowTable(path: string, schema: z.ZodObject, rows: readonly object[]): Promise<number> {
+  const columns = columnsFromRowSchema(schema);
+  const w = await ParquetTableWriter.open(path, columns);
+  try {
+    for (const row of rows) {
+      const r = row as Record<string, CellValue>;
+      const out: Record<string, CellValue> = {};
+      for (const c of columns) {
+        const v = r[c.name];
+        out[c.name] = c.nullable && typeof v === 'number' && !Number.isFinite(v) ? null : v;
+      }
+      await w.append(out);
+    }
+  } finally {
+    await w.close();
+  }
+  return rows.length;
+}
+
+export const ANALYSIS_FILES = { convergence: 'convergence.parquet', sensitivity: 'sensitivity.parquet', report: 'report.html' } as const;
+
+/**
+ * Compute and write convergence.parquet into `dir` (which already holds runs.parquet, fields/ and the sweep copy),
+ * then report.html from all of them. sensitivity.parquet is computed too when `sensitivity` is set; it is off by
+ * default because the report, given that file, shows its rows without the notes on how they were sampled.
+ */
+export async function writeAnalysisTables(dir: string, options: { sensitivity?: boolean } = {}): Promise<{ convergence: number; sensitivity: number | null }> {
+  const tables = await readReportFolder(dir);
+  const convergence = computeConvergence(tables, { generatedBy: `loamwave ${SOLVER_VERSION}` });
+  const counts = {
+    convergence: await writeRowTable(join(dir, ANALYSIS_FILES.convergence), ConvergenceRowSchema, convergence),
+    sensitivity: options.sensitivity
+      ? await writeRowTable(join(dir, ANALYSIS_FILES.sensitivity), SensitivityRowSchema, computeSensitivity(tables, { warnings: [] }))
+      : null,
+  };
+  await writeReport(dir);
+  return counts;
+}
