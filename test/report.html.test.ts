@@ -7,7 +7,7 @@ import { convergenceTable, type ConvergenceRun } from '../coordinator/analysis/g
 import { saltelliDesign, saltelliIndices, saltelliRows } from '../coordinator/analysis/saltelli.js';
 import { ReportDataSchema, type FieldSeries, type ReportData } from '../coordinator/report/report-data.js';
 import { buildReportHtml, escapeHtml } from '../coordinator/report/report-html.js';
-import { residualPhaseDeg } from '../coordinator/report/report-plots.js';
+import { fieldPlots, MAX_FIELD_LINES, renderSvg, residualPhaseDeg } from '../coordinator/report/report-plots.js';
 import { C0 } from '../solver/constants.js';
 import { checkReportPage, launchChromium, type Browser } from './report.page-check.js';
 
@@ -106,6 +106,20 @@ describe('report page', () => {
     const s = demoSeries('x', 30e3, 1);
     s.points = s.points.map((p) => ({ ...p, ez_phase_deg: ((((-(360 * 30e3 * p.range_m) / C0 + 180) % 360) + 360) % 360) - 180 }));
     for (const p of residualPhaseDeg(s)) expect(Math.abs(p.value)).toBeLessThan(1e-9);
+  });
+
+  it('when a sampled sweep has more runs than a plot draws then an evenly spaced subset is drawn on a log colour ramp', async () => {
+    // 300 runs with conductivities spread over four decades (as a log_uniform input gives).
+    const many = Array.from({ length: 300 }, (_, k) => demoSeries(`j${k}`, 20e3, 10 ** (-4 + (4 * k) / 299)));
+    const input = { path: 'ground.segments[0].conductivity_s_per_m', column: 'ground_segments_0_conductivity_s_per_m', min: 1e-4, max: 1, distinct: 300 };
+    const [db] = fieldPlots(many, [input]);
+    expect(db.caption).toContain(`${MAX_FIELD_LINES} of 300 runs drawn`);
+    const colour = (db.spec as { encoding: { color: { type: string; scale: { type?: string } } } }).encoding.color;
+    expect(colour.type).toBe('quantitative');
+    expect(colour.scale.type).toBe('log');
+    const svg = await renderSvg(db.spec);
+    // Vega draws one line-mark group per run (the detail channel): exactly the runs drawn.
+    expect((svg.match(/<g class="mark-line role-mark[^"]*"/g) ?? []).length).toBe(MAX_FIELD_LINES);
   });
 
   it('when built then it is one self-contained page: no scripts, links, external URLs or web fonts', () => {
