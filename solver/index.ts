@@ -52,10 +52,12 @@ interface Schedule {
 function schedule(c: Case, g: GridPlan): Schedule {
   const N = g.stepsPerPeriod;
   const rampSteps = c.run.ramp_periods * N;
-  // the field at the farthest receiver is steady once the end of the ramp has travelled there (at c, the fastest
-  // speed on the grid) and two more periods have passed for the near-field and top-reflection transients.
-  const farthest = Math.max(...c.receivers.ranges_m);
-  const travelSteps = Math.ceil(farthest / C0 / g.dtS);
+  // Steady state at every receiver once the end of the ramp has crossed the whole grid and come back (at c, the
+  // fastest speed on the grid), so that the small reflections of the absorbing layers are in every answer and a
+  // receiver's result does not depend on which other receivers the case lists; then two more periods for the
+  // near-field transients. The window-to-window test then confirms it.
+  const extentM = Math.max(g.nx * g.dxM, g.zNodeM[g.nz] - g.zNodeM[0], Math.max(...c.receivers.ranges_m));
+  const travelSteps = Math.ceil((2 * extentM) / C0 / g.dtS);
   const settleSteps = rampSteps + travelSteps + 2 * N;
   return { rampSteps, settleSteps, windowSteps: c.run.dft_periods * N };
 }

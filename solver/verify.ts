@@ -245,6 +245,53 @@ export const impedanceVsResolvedCheck: ReferenceCheck = {
   },
 };
 
+/**
+ * Land–sea path (100 kHz; 30 km of 5e-4 S/m εr 10, then sea water 4 S/m εr 80): the field ratio to a perfect
+ * ground against Millington's method, the mean of the forward and reverse constructions from homogeneous-path
+ * curves (Millington, Proc. IEE Part III 96, 1949: the averaging is published; the formula here is from memory),
+ * built from the same Sommerfeld–Norton curves. It reproduces the recovery of the field over the sea.
+ */
+export const mixedPathCheck: ReferenceCheck = {
+  id: 'mixed-path',
+  run: () => {
+    const f = 1e5;
+    const land: [number, number] = [5e-4, 10];
+    const sea: [number, number] = [4, 80];
+    const d1 = 30000;
+    const ranges = [40000, 60000, 80000];
+    const base: CaseInput = {
+      frequency_hz: f,
+      ground: {
+        model: 'impedance',
+        segments: [
+          { start_m: 0, conductivity_s_per_m: land[0], relative_permittivity: land[1] },
+          { start_m: d1, conductivity_s_per_m: sea[0], relative_permittivity: sea[1] },
+        ],
+      },
+      domain: { range_m: 90000, height_m: 15000 },
+      grid: { cells_per_wavelength: 20 },
+      receivers: { ranges_m: ranges },
+    };
+    const over = solve(parseCase(base));
+    const pec = solve(parseCase({ ...base, ground: { model: 'pec' } }));
+    const curve = (g: [number, number], d: number) => db(Cx.abs(nortonFieldRatio(f, g[0], g[1], d, { deltaForm: 'surface-impedance' })));
+    return ranges.map((d, i) => {
+      const d2 = d - d1;
+      const forward = curve(land, d1) - curve(sea, d1) + curve(sea, d);
+      const reverse = curve(sea, d2) - curve(land, d2) + curve(land, d);
+      return outcome(
+        `land–sea path, |E/E_pec| at ${d / 1e3} km (sea from 30 km), 100 kHz (dB)`,
+        "Millington's mixed-path method (Proc. IEE Part III 96, 1949) on Sommerfeld–Norton curves",
+        (forward + reverse) / 2,
+        db(Cx.abs(Cx.div(over.receivers[i].ez, pec.receivers[i].ez))),
+        0.5,
+        ' dB',
+        3,
+      );
+    });
+  },
+};
+
 /** Least-squares slope of y against x. */
 function slope(x: number[], y: number[]): number {
   const n = x.length;
@@ -342,5 +389,6 @@ export function referenceChecks(): ReferenceCheck[] {
     nortonCheck('axisymmetric', NORTON_FAR),
     impedanceVsResolvedCheck,
     guideCheck,
+    mixedPathCheck,
   ];
 }
