@@ -88,7 +88,7 @@ describe('queue round trip', () => {
     const queuedOut = join(scratch, 'queued');
     const q = ['--redis', redis.url, '--prefix', prefix];
 
-    const embedded = await cli(['run', sweep, '--out', embeddedOut, '--workers', '2', '--json']);
+    const embedded = await cli(['run', sweep, '--out', embeddedOut, '--workers', '2', '--json', '--no-report']);
     expect(embedded.code, embedded.stderr).toBe(0);
 
     // Both workers serve the sweep's queue before anything is queued, so both take part.
@@ -106,7 +106,7 @@ describe('queue round trip', () => {
     const again = await cli(['submit', sweep, '--out', queuedOut, '--json', ...q]);
     expect(JSON.parse(again.stdout)).toMatchObject({ added: 0, already_queued: 20 });
 
-    const collected = await cli(['collect', sweep, '--out', queuedOut, '--follow', '--json', ...q]);
+    const collected = await cli(['collect', sweep, '--out', queuedOut, '--follow', '--json', '--no-report', ...q]);
     expect(collected.code, collected.stderr).toBe(0);
     expect(JSON.parse(collected.stdout)).toMatchObject({ committed: 20, failed: 0, complete: true });
 

@@ -96,7 +96,7 @@ describe('workers under faults', () => {
     expect((await a.exited).signal).toBe('SIGKILL');
 
     const b = start(['worker', ...q, ...fast]);
-    const collect = start(['collect', sweep, '--out', out, '--follow', '--json', ...q]);
+    const collect = start(['collect', sweep, '--out', out, '--follow', '--json', '--no-report', ...q]);
     await until('worker B to take the job over', () => b.log().includes('started'));
     const takeoverS = (Date.now() - killedAt) / 1000;
     const collected = await collect.exited;

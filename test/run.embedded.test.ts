@@ -67,7 +67,7 @@ describe('loamwave run (embedded)', () => {
     expect(first.code).toBe(0);
     const s1 = JSON.parse(first.stdout);
     expect(s1).toMatchObject({ jobs: 4, solved_now: 4, solver_calls: 4, counts: { done: 4 } });
-    for (const f of ['runs.parquet', 'fields', 'inland-a.yaml'].slice(0, 2)) expect(existsSync(join(out, f))).toBe(true);
+    for (const f of ['runs.parquet', 'fields', 'report.html']) expect(existsSync(join(out, f)), f).toBe(true);
 
     // The ledger's JSON text reads back as the doubles an in-process solve of the same case gives (determinism
     // contract; JSON round trip exact per ECMA-262 Number::toString).
@@ -82,7 +82,7 @@ describe('loamwave run (embedded)', () => {
       expect(got).toStrictEqual(want);
     }
 
-    const again = cli(['run', sweep, '--out', out, '--json'], scratch);
+    const again = cli(['run', sweep, '--out', out, '--json', '--no-report'], scratch);
     expect(again.code, again.stderr).toBe(0);
     expect(JSON.parse(again.stdout)).toMatchObject({ solved_now: 0, solver_calls: 0, counts: { done: 4 } });
     expect(ledgerRows(out).map((r) => r.attempts)).toEqual(rows.map((r) => r.attempts));
@@ -121,7 +121,7 @@ describe('loamwave run (embedded)', () => {
     expect(done).toBeLessThan(6);
     expect(existsSync(join(out, 'runs.parquet'))).toBe(false);
 
-    const rerun = cli(['run', sweep, '--out', out, '--workers', '2', '--json'], scratch);
+    const rerun = cli(['run', sweep, '--out', out, '--workers', '2', '--json', '--no-report'], scratch);
     expect(rerun.code, rerun.stderr).toBe(0);
     expect(JSON.parse(rerun.stdout)).toMatchObject({ solver_calls: 6 - done, counts: { done: 6 } });
   });
@@ -129,7 +129,7 @@ describe('loamwave run (embedded)', () => {
   it('when stderr is a pipe then progress comes as plain lines without escape codes', () => {
     const sweep = join(scratch, 'inland-plain.yaml');
     writeFileSync(sweep, sweepYaml('inland-plain', 8, [0.001, 0.01]));
-    const r = cli(['run', sweep, '--out', join(scratch, 'out-plain')], scratch, { NO_COLOR: '1' });
+    const r = cli(['run', sweep, '--out', join(scratch, 'out-plain'), '--no-report'], scratch, { NO_COLOR: '1' });
     expect(r.code).toBe(0);
     expect(r.stdout).toBe(''); // quiet on stdout without --json
     expect(r.stderr).toMatch(/2\/2 done/);

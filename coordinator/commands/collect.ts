@@ -2,16 +2,16 @@
 // (each result committed before it leaves Redis; failures recorded with their reason); with --follow, keep
 // collecting until the sweep is complete. When it is, the outputs are written.
 import type { Command } from 'commander';
-import { writeOutputs } from '../outputs.js';
 import { addQueueOptions, type QueueCliOptions } from '../queue-options.js';
 import { queueSession, withQueue } from '../queue-session.js';
-import { openSweepRun } from '../run-setup.js';
+import { openSweepRun, writeSweepOutputs } from '../run-setup.js';
 import { EXIT_STOPPED } from '../stop-signals.js';
 
 interface CollectCliOptions extends QueueCliOptions {
   out?: string;
   follow?: boolean;
   json?: boolean;
+  report?: boolean;
 }
 
 export function registerCollect(program: Command): void {
@@ -21,13 +21,14 @@ export function registerCollect(program: Command): void {
     .argument('<sweep>', 'sweep file (.yaml or .json)')
     .option('--out <dir>', 'output folder holding the ledger (default: out/<sweep name>/)')
     .option('--follow', 'keep collecting, with a progress bar, until every job is done or failed')
+    .option('--no-report', 'write the tables but not report.html')
     .option('--json', 'print what was collected as JSON on stdout');
   addQueueOptions(cmd, { required: true, what: 'the queue to collect from' });
   cmd.action(async (sweepPath: string, opts: CollectCliOptions) => {
     const run = openSweepRun(sweepPath, opts.out);
     try {
       const r = await withQueue(run, opts, (handles) => queueSession(run, handles, { submit: false, follow: opts.follow === true, progress: true }));
-      if (r.complete) await writeOutputs(run.ledger, run.sweep, run.text, run.outDir, { jobs: run.jobs });
+      if (r.complete) await writeSweepOutputs(run, opts.report !== false);
       const counts = run.ledger.counts();
       if (opts.json) {
         process.stdout.write(

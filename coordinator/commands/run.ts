@@ -5,11 +5,10 @@ import { availableParallelism } from 'node:os';
 import { performance } from 'node:perf_hooks';
 import { Option, type Command } from 'commander';
 import { LocalDispatch, type LocalDispatchSummary } from '../local-dispatch.js';
-import { writeOutputs } from '../outputs.js';
 import { ProgressBar } from '../progress-bar.js';
 import { addQueueOptions, integerOption, type QueueCliOptions } from '../queue-options.js';
 import { queueSession, withQueue } from '../queue-session.js';
-import { longestFirst, openSweepRun, type SweepRun } from '../run-setup.js';
+import { longestFirst, openSweepRun, writeSweepOutputs, type SweepRun } from '../run-setup.js';
 import { EXIT_STOPPED, onStopSignals } from '../stop-signals.js';
 import { SweepProgress } from '../sweep-progress.js';
 
@@ -18,6 +17,7 @@ interface RunCliOptions extends QueueCliOptions {
   workers: number;
   maxMemoryMb?: number;
   json?: boolean;
+  report?: boolean;
 }
 
 /** Exit code of a sweep that finished with some jobs failed (outputs are still written). */
@@ -35,6 +35,7 @@ export function registerRun(program: Command): void {
         .default(availableParallelism()),
     )
     .addOption(new Option('--max-memory-mb <n>', 'largest memory one case may need, MiB (default: 70 % of RAM / workers)').argParser(integerOption(1)))
+    .option('--no-report', 'write the tables but not report.html')
     .option('--json', 'print a summary as JSON on stdout');
   addQueueOptions(cmd, { required: false, what: 'submit to this queue and collect what the workers return' });
   cmd.action(async (sweepPath: string, opts: RunCliOptions) => {
@@ -47,7 +48,7 @@ export function registerRun(program: Command): void {
         process.stderr.write(`stopped: ${counts.done} of ${run.jobs.length} job(s) done; run the same command again to go on\n`);
         process.exitCode = EXIT_STOPPED;
       } else {
-        await writeOutputs(run.ledger, run.sweep, run.text, run.outDir, { jobs: run.jobs });
+        await writeSweepOutputs(run, opts.report !== false);
         if (counts.failed > 0) {
           process.stderr.write(`error: ${counts.failed} job(s) failed; their reasons are in the error column of runs.parquet (and \`loamwave status\`)\n`);
           process.exitCode = EXIT_SOME_FAILED;
