@@ -4,6 +4,7 @@ import {
   apparentOrder,
   ConvergenceRowSchema,
   convergenceTable,
+  describeGroup,
   gridConvergence,
   unwrapAgainst,
   type ConvergenceRun,
@@ -105,6 +106,8 @@ describe('convergence rows for a sweep', () => {
     expect(rows).toHaveLength(8);
     for (const row of rows) expect(ConvergenceRowSchema.parse(row)).toEqual(row);
     expect(new Set(rows.map((r) => r.group))).toEqual(new Set(['{"frequency_hz":20000}', '{"frequency_hz":40000}']));
+    expect(describeGroup(rows[0].group)).toBe('frequency_hz = 20000');
+    expect(describeGroup('{}')).toBe('all runs');
   });
 
   it('when the error goes as 1/cpw² then the apparent order is 2 and the extrapolation removes it', () => {

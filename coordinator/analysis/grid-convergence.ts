@@ -267,6 +267,12 @@ function canonicalGroup(params: Readonly<Record<string, ParamValue>>, skip: stri
   return JSON.stringify(Object.fromEntries(keys.map((k) => [k, params[k]])));
 }
 
+/** `{"frequency_hz":20000}` → `frequency_hz = 20000`: a group's other inputs as text (`all runs` for `{}`). */
+export function describeGroup(group: string): string {
+  const entries = Object.entries(JSON.parse(group) as Record<string, unknown>);
+  return entries.length === 0 ? 'all runs' : entries.map(([k, v]) => `${k} = ${String(v)}`).join(', ');
+}
+
 /**
  * Convergence rows for every group of runs that differ only in resolution and have at least three distinct
  * resolution levels, per receiver and output (field strength in dB, phase in degrees unwrapped against the

@@ -1,7 +1,7 @@
 // Turns the tables of an output folder (plain rows, as read) into the report's data: the convergence and
 // sensitivity tables when the folder has none, the field series, the warnings and the summary. Pure: rows in,
 // ReportData out; the folder reading lives in report-folder.ts.
-import { convergenceTable, ResolutionAxisSchema, type ConvergenceRow, type ConvergenceRun } from '../analysis/grid-convergence.js';
+import { convergenceTable, describeGroup, ResolutionAxisSchema, type ConvergenceRow, type ConvergenceRun } from '../analysis/grid-convergence.js';
 import { elementaryEffectRows, elementaryEffects, type EffectScale } from '../analysis/morris.js';
 import { regressionRows, standardisedRegression } from '../analysis/regression.js';
 import { saltelliIndices, saltelliRows } from '../analysis/saltelli.js';
@@ -242,8 +242,8 @@ function warningsOf(tables: FolderTables, convergence: readonly ConvergenceRow[]
   }
   for (const r of convergence) {
     if (r.verdict === 'converged') continue;
-    const group = r.group === '{}' ? '' : ` ${r.group}`;
-    out.push({ kind: 'unconverged_mesh', job_id: null, message: `${r.output} at ${r.range_m / 1000} km${group}: ${r.behaviour}, ${r.advice}` });
+    const group = r.group === '{}' ? '' : ` (${describeGroup(r.group)})`;
+    out.push({ kind: 'unconverged_mesh', job_id: null, message: `${r.output} at ${r.range_m / 1000} km${group}: ${r.behaviour}; ${r.advice}` });
   }
   return out;
 }

@@ -1,6 +1,6 @@
 // The sweep report: one self-contained HTML page (inline styles, inline SVG plots, no scripts, no fonts or anything
 // else fetched) built from a ReportData structure. Pure apart from rendering the plots: data in, a string out.
-import type { ConvergenceRow } from '../analysis/grid-convergence.js';
+import { describeGroup, type ConvergenceRow } from '../analysis/grid-convergence.js';
 import type { SensitivityRow } from '../analysis/sensitivity-table.js';
 import { ReportDataSchema, type Cell, type ReportData, type ReportDataInput, type ReportWarning } from './report-data.js';
 import { convergencePlots, fieldPlots, renderSvg, sensitivityPlots, type Plot } from './report-plots.js';
@@ -82,16 +82,10 @@ function countBy(items: readonly string[]): Record<string, number> {
   return out;
 }
 
-/** `{"frequency_hz":20000}` → `frequency_hz = 20000`: the group's other inputs, readable. */
-export function groupText(group: string): string {
-  const entries = Object.entries(JSON.parse(group) as Record<string, unknown>);
-  return entries.length === 0 ? '(all runs)' : entries.map(([k, v]) => `${k} = ${String(v)}`).join(', ');
-}
-
 function convergenceTableHtml(rows: readonly ConvergenceRow[]): string {
   const columns = ['group', 'output', 'range (km)', 'levels', 'finest', 'order p', 'extrapolated', 'GCI fine', 'uncertainty', 'behaviour', 'verdict', 'what to do'];
   const body = rows.map((r) => [
-    groupText(r.group),
+    describeGroup(r.group),
     r.output,
     r.range_m / 1000,
     r.levels,
