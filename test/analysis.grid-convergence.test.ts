@@ -133,6 +133,19 @@ describe('convergence rows for a sweep', () => {
     expect(unwrapAgainst(179, -179)).toBe(181);
   });
 
+  it('when the finest phase is exactly 0° then the relative error is null and the row still fits the schema', () => {
+    // e_a21 = |(φ1 − φ2)/φ1| has no value at φ1 = 0 (Celik et al. 2008, eq. 5a); the absolute band still does.
+    const zeroRuns: ConvergenceRun[] = [10, 20, 40].map((cpw) => ({
+      params: {},
+      resolution: cpw,
+      receivers: [{ range_m: 1000, height_m: 0, ez_db_uv_per_m: 50 + 1 / cpw ** 2, ez_phase_deg: cpw === 40 ? 0 : 8 / cpw ** 2 - 8 / 1600 }],
+    }));
+    const phase = convergenceTable(zeroRuns, { axis: 'cells_per_wavelength' }).find((r) => r.output === 'ez_phase_deg')!;
+    expect(phase.e_a21).toBeNull();
+    expect(phase.apparent_order).toBeCloseTo(2, 9);
+    expect(ConvergenceRowSchema.parse(phase)).toEqual(phase);
+  });
+
   it('when the finest band exceeds the tolerance then the verdict asks for a finer grid', () => {
     const db = rows.find((r) => r.output === 'ez_db_uv_per_m')!;
     // Band at cpw 28 vs 20: 1.25·40·(1/20² − 1/28²)/((28/20)² − 1) = 0.0638 dB < 0.1 dB: converged.

@@ -219,7 +219,8 @@ export const ConvergenceRowSchema = z.strictObject({
   phi3: z.number(),
   apparent_order: z.number().nullable(),
   phi_extrapolated: z.number().nullable(),
-  e_a21: z.number(),
+  /** Null where φ1 = 0 (the relative error has no value). */
+  e_a21: z.number().nullable(),
   e_ext21: z.number().nullable(),
   gci_fine21: z.number().nullable(),
   /** Uncertainty band of the finest run, in the output's unit (dB or degrees). */
@@ -329,7 +330,7 @@ export function convergenceTable(runs: readonly ConvergenceRun[], options: Conve
           phi3: result.phi3,
           apparent_order: orNull(result.apparentOrder),
           phi_extrapolated: orNull(result.phiExtrapolated),
-          e_a21: result.relativeError21,
+          e_a21: orNull(result.relativeError21),
           e_ext21: orNull(result.extrapolatedRelativeError21),
           gci_fine21: orNull(result.gciFine21),
           uncertainty: orNull(result.uncertainty),
