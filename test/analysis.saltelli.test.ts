@@ -102,7 +102,10 @@ describe('Sobol indices', () => {
     for (const row of rows) expect(SensitivityRowSchema.parse(row)).toEqual(row);
   });
 
-  it('when given the wrong number of values then it refuses', () => {
-    expect(() => saltelliIndices([1, 2, 3], layout)).toThrow(/expected/);
+  it.each([
+    ['the wrong number of values', () => [1, 2, 3], /expected/],
+    ['an output that never varies', () => new Array(n * 5).fill(2), /does not vary/],
+  ])('when given %s then it refuses', (_case, values, message) => {
+    expect(() => saltelliIndices(values(), layout)).toThrow(message);
   });
 });

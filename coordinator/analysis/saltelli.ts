@@ -99,17 +99,14 @@ export interface SaltelliIndicesOptions {
 function estimate(y: ArrayLike<number>, layout: SaltelliLayout, idx: ArrayLike<number>): { s1: number[]; st: number[]; variance: number } {
   const { n, d } = layout;
   const m = idx.length;
-  // Total variance over the union of f(A) and f(B) (Saltelli et al. 2010, §4).
+  // Total variance over the union of f(A) and f(B) (Saltelli et al. 2010, §4), in two passes so that a constant
+  // output gives exactly 0 rather than rounding noise (Chan, Golub & LeVeque, Am. Stat. 37(3), 1983).
   let sum = 0;
-  let sumSq = 0;
-  for (let k = 0; k < m; k++) {
-    const fa = y[idx[k]];
-    const fb = y[n + idx[k]];
-    sum += fa + fb;
-    sumSq += fa * fa + fb * fb;
-  }
+  for (let k = 0; k < m; k++) sum += y[idx[k]] + y[n + idx[k]];
   const mean = sum / (2 * m);
-  const variance = sumSq / (2 * m) - mean * mean;
+  let sumSq = 0;
+  for (let k = 0; k < m; k++) sumSq += (y[idx[k]] - mean) ** 2 + (y[n + idx[k]] - mean) ** 2;
+  const variance = sumSq / (2 * m);
   const s1: number[] = [];
   const st: number[] = [];
   for (let i = 0; i < d; i++) {
@@ -152,6 +149,12 @@ export function saltelliIndices(y: ArrayLike<number>, layout: SaltelliLayout, op
   const confidence = options.confidence ?? 0.95;
   const all = Uint32Array.from({ length: n }, (_, j) => j);
   const point = estimate(y, layout, all);
+  // A variance at rounding level (relative 1e-12 of the largest value) is no variance: the output is constant.
+  let scale = 0;
+  for (let k = 0; k < 2 * n; k++) scale = Math.max(scale, Math.abs(y[k]));
+  if (!(point.variance > (1e-12 * scale) ** 2)) {
+    throw new Error('saltelliIndices: the output does not vary over A and B, so it has no variance to apportion');
+  }
   const rng = createPrng(options.seed ?? 1);
   const bootS1 = Array.from({ length: d }, () => new Float64Array(resamples));
   const bootST = Array.from({ length: d }, () => new Float64Array(resamples));

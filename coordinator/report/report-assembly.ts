@@ -192,8 +192,12 @@ export function computeSensitivity(tables: FolderTables, notes: Notes): Sensitiv
         }
         continue;
       }
-      const indices = saltelliIndices(y, { n, d, skip: 0, seed: design.seed });
-      rows.push(...saltelliRows(output, params.map((p) => p.column), indices, n));
+      try {
+        const indices = saltelliIndices(y, { n, d, skip: 0, seed: design.seed });
+        rows.push(...saltelliRows(output, params.map((p) => p.column), indices, n));
+      } catch (e) {
+        notes.warnings.push({ kind: 'solver', job_id: null, message: `sensitivity of ${output}: ${(e as Error).message.replace(/^saltelliIndices: /, '')}` });
+      }
     }
     return rows;
   }
