@@ -62,6 +62,14 @@ describe('standardised regression coefficients', () => {
     expect(Math.abs(standardisedRegression(xs, ys).rSquared - 0.5)).toBeLessThan(0.03);
   });
 
+  it('when the output never varies then every SRC is 0 and the row carries no R²', () => {
+    const r = standardisedRegression(x, x.map(() => 5));
+    expect(r.src).toEqual([0, 0, 0]);
+    const rows = regressionRows('flat', ['a', 'b', 'c'], r);
+    expect(rows.map((row) => row.r_squared)).toEqual([null, null, null]);
+    for (const row of rows) expect(SensitivityRowSchema.parse(row)).toEqual(row);
+  });
+
   it('when a parameter never varies then it gets no coefficient and no table row', () => {
     const xs = x.map((p) => [p[0], 4]);
     const r = standardisedRegression(xs, xs.map((p) => 2 * p[0]));

@@ -119,7 +119,8 @@ export function regressionRows(output: string, parameters: readonly string[], re
             ci_high: null,
             confidence: null,
             samples: result.samples,
-            r_squared: result.rSquared,
+            // R² has no value when the output is constant.
+            r_squared: Number.isFinite(result.rSquared) ? result.rSquared : null,
           },
         ],
   );
