@@ -1,6 +1,7 @@
 // convergence.parquet (and, on request, sensitivity.parquet): the analysis tables of a sweep, computed from the runs
 // and fields tables just written (read back through the report's folder reader, so the files and the report agree),
 // with Parquet columns derived from the row schemas, which are the contract. Also the report page, from the same tables.
+import { renameSync } from 'node:fs';
 import { join } from 'node:path';
 import { z } from 'zod';
 import { ConvergenceRowSchema } from './analysis/grid-convergence.js';
@@ -50,19 +51,26 @@ export async function writeRowTable(path: string, schema: z.ZodObject, rows: rea
 export const ANALYSIS_FILES = { convergence: 'convergence.parquet', sensitivity: 'sensitivity.parquet', report: 'report.html' } as const;
 
 /**
- * Compute and write convergence.parquet into `dir` (which already holds runs.parquet, fields/ and the sweep copy),
- * then report.html from all of them. sensitivity.parquet is computed too when `sensitivity` is set; it is off by
- * default because the report, given that file, shows its rows without the notes on how they were sampled.
+ * Compute convergence.parquet (and sensitivity.parquet when `sensitivity` is set) from the tables published in
+ * `dir` (runs.parquet, fields/ and the sweep copy), write them under `stagingDir` and rename them into `dir`, then
+ * write report.html (atomically, by the report's own writer) from all of them. sensitivity.parquet is off by default
+ * because the report, given that file, shows its rows without the notes on how they were sampled.
  */
-export async function writeAnalysisTables(dir: string, options: { sensitivity?: boolean } = {}): Promise<{ convergence: number; sensitivity: number | null }> {
+export async function writeAnalysisTables(
+  dir: string,
+  stagingDir: string,
+  options: { sensitivity?: boolean } = {},
+): Promise<{ convergence: number; sensitivity: number | null }> {
   const tables = await readReportFolder(dir);
   const convergence = computeConvergence(tables, { generatedBy: `loamwave ${SOLVER_VERSION}` });
   const counts = {
-    convergence: await writeRowTable(join(dir, ANALYSIS_FILES.convergence), ConvergenceRowSchema, convergence),
+    convergence: await writeRowTable(join(stagingDir, ANALYSIS_FILES.convergence), ConvergenceRowSchema, convergence),
     sensitivity: options.sensitivity
-      ? await writeRowTable(join(dir, ANALYSIS_FILES.sensitivity), SensitivityRowSchema, computeSensitivity(tables, { warnings: [] }))
+      ? await writeRowTable(join(stagingDir, ANALYSIS_FILES.sensitivity), SensitivityRowSchema, computeSensitivity(tables, { warnings: [] }))
       : null,
   };
+  renameSync(join(stagingDir, ANALYSIS_FILES.convergence), join(dir, ANALYSIS_FILES.convergence));
+  if (counts.sensitivity !== null) renameSync(join(stagingDir, ANALYSIS_FILES.sensitivity), join(dir, ANALYSIS_FILES.sensitivity));
   await writeReport(dir);
   return counts;
 }

@@ -23,6 +23,8 @@ export interface OutputOptions {
   readonly analysis?: boolean;
   /** Also write sensitivity.parquet (needs `analysis`). @defaultValue false (see analysis-tables.ts) */
   readonly sensitivityTable?: boolean;
+  /** Skip the analysis (which holds every field row in memory) above this many field rows. @defaultValue 1000000 */
+  readonly analysisMaxFieldRows?: number;
 }
 
 export interface OutputSummary {
@@ -34,6 +36,8 @@ export interface OutputSummary {
   /** Rows of convergence.parquet and sensitivity.parquet (null when `analysis` is off). */
   convergenceRows: number | null;
   sensitivityRows: number | null;
+  /** Why the analysis files were not written, when they were not although asked for. */
+  analysisSkipped: string | null;
 }
 
 /** File names inside the output folder. */
@@ -41,6 +45,8 @@ export const OUTPUT_FILES = { runs: 'runs.parquet', fields: 'fields', sweep: 'sw
 const STAGING_PREFIX = '.outputs-staging-';
 /** Default rows per fields file: about five seconds of parquetjs-lite writing here (~19 s per 10^6 rows × 10 columns). */
 const FIELD_ROWS_PER_FILE = 250_000;
+/** The analysis and report read every field row into memory (about 0.5 kB each as JS objects): a Loamwave choice. */
+const ANALYSIS_MAX_FIELD_ROWS = 1_000_000;
 
 /** The column of one varied parameter: DOUBLE when every value is a number, else UTF8. */
 export function paramColumns(jobs: readonly ExpandedJob[], sweep: Sweep): Array<ColumnSpec & { path: string }> {
@@ -164,7 +170,9 @@ export function sweepCopyName(sweepText: string): string {
 
 /**
  * Write runs.parquet, fields/ and the sweep copy for the jobs of `sweep` (jobs of other sweeps that share the
- * ledger are left out). Each table is complete or absent: written under a staging folder, then renamed.
+ * ledger are left out), then convergence.parquet and report.html from them. Each table is complete or absent:
+ * written under a staging folder, then renamed; the analysis files of an earlier write are removed with the old
+ * tables, so a failed analysis leaves no file describing other runs.
  */
 export async function writeOutputs(
   ledger: Ledger,
@@ -240,35 +248,48 @@ export async function writeOutputs(
     }
 
     writeFileSync(join(staging, sweepCopyName(sweepText)), sweepText);
-    const files: string[] = [OUTPUT_FILES.runs, sweepCopyName(sweepText)];
-    let analysis: { convergence: number; sensitivity: number | null } | null = null;
-    if (options.analysis ?? true) {
-      analysis = await writeAnalysisTables(staging, { sensitivity: options.sensitivityTable ?? false });
-      files.push(ANALYSIS_FILES.convergence, ANALYSIS_FILES.report);
-      if (analysis.sensitivity !== null) files.push(ANALYSIS_FILES.sensitivity);
-    }
-    publish(staging, outDir, files, OUTPUT_FILES.fields);
-    return {
+    // The analysis files (and a sweep copy of the other format) of an earlier write describe other runs: they
+    // leave with the old tables.
+    const otherCopy = sweepCopyName(sweepText).endsWith('.json') ? `${OUTPUT_FILES.sweep}.yaml` : `${OUTPUT_FILES.sweep}.json`;
+    publish(staging, outDir, [OUTPUT_FILES.runs, sweepCopyName(sweepText)], OUTPUT_FILES.fields, [
+      ...Object.values(ANALYSIS_FILES),
+      otherCopy,
+    ]);
+    const summary: OutputSummary = {
       runs: jobs.length,
       fieldRows,
       jobsPerPart,
       parts: writers.size,
-      convergenceRows: analysis?.convergence ?? null,
-      sensitivityRows: analysis?.sensitivity ?? null,
+      convergenceRows: null,
+      sensitivityRows: null,
+      analysisSkipped: null,
     };
+    if (!(options.analysis ?? true)) return summary;
+    const maxRows = options.analysisMaxFieldRows ?? ANALYSIS_MAX_FIELD_ROWS;
+    if (fieldRows > maxRows) {
+      summary.analysisSkipped = `${fieldRows} field rows, more than the ${maxRows} the analysis holds in memory`;
+      return summary;
+    }
+    // Second stage, from the tables just published: a failure here leaves runs.parquet and fields/ in place.
+    const analysis = await writeAnalysisTables(outDir, staging, { sensitivity: options.sensitivityTable ?? false });
+    summary.convergenceRows = analysis.convergence;
+    summary.sensitivityRows = analysis.sensitivity;
+    return summary;
   } finally {
     rmSync(staging, { recursive: true, force: true });
   }
 }
 
-/** Rename finished files over the old ones (atomic per file), then swap the fields/ folder in. */
-function publish(staging: string, outDir: string, files: readonly string[], folder: string): void {
+/**
+ * Rename finished files over the old ones (atomic per file), move `stale` files aside, then swap the folder in.
+ * A folder cannot be renamed over a non-empty one: the old one moves aside first (a crash between the two renames
+ * leaves no fields/ at all, never a mixture) and is removed with the staging folder.
+ */
+function publish(staging: string, outDir: string, files: readonly string[], folder: string, stale: readonly string[]): void {
+  for (const f of stale) if (existsSync(join(outDir, f))) renameSync(join(outDir, f), join(staging, `${f}.old`));
   for (const f of files) renameSync(join(staging, f), join(outDir, f));
   const target = join(outDir, folder);
-  const old = join(staging, `${folder}.old`);
-  // A folder cannot be renamed over a non-empty one: move the old aside first (a crash between the two renames
-  // leaves no fields/ at all, never a mixture), then remove it with the staging folder.
-  if (existsSync(target)) renameSync(target, old);
+  if (existsSync(target)) renameSync(target, join(staging, `${folder}.old`));
   renameSync(join(staging, folder), target);
 }
 

@@ -239,6 +239,28 @@ describe('outputs', () => {
     });
     ledger.close();
   });
+  it('when the analysis fails after the tables are written then runs and fields stay published and no stale analysis file is left', async () => {
+    const input = {
+      name: 'analysis-fault',
+      base: { frequency_hz: 20000, ground: { model: 'pec' }, domain: { range_m: 60000, height_m: 20000 }, receivers: { ranges_m: [10000] } },
+      vary: { 'grid.cells_per_wavelength': { values: [8, 12, 16] } },
+    };
+    const s = parseSweep(input);
+    const js = expandSweep(s);
+    const out = freshDir();
+    const ledger = Ledger.open(out);
+    ledger.addJobs(js);
+    ledger.commitResult(realResult(js[0]));
+    await writeOutputs(ledger, s, JSON.stringify(input), out, { jobs: js });
+    const outputs = () => readdirSync(out).filter((f) => !f.startsWith('ledger.sqlite')).sort();
+    expect(outputs()).toEqual(['convergence.parquet', 'fields', 'report.html', 'runs.parquet', 'sweep.json']);
+    for (const j of js.slice(1)) ledger.commitResult(realResult(j));
+    // Fault: a sweep copy the analysis cannot read back (YAML text that is no sweep) makes the second stage throw.
+    await expect(writeOutputs(ledger, s, 'not: a sweep\n', out, { jobs: js })).rejects.toThrow('sweep.yaml');
+    expect(outputs()).toEqual(['fields', 'runs.parquet', 'sweep.yaml']);
+    expect((await rows(`SELECT count(*) AS n FROM read_parquet('${out}/fields/**/*.parquet')`))[0].n).toBe(3n);
+    ledger.close();
+  });
 });
 
 /** Name, size and bytes of every output file (the ledger excluded), for before/after comparison. */
