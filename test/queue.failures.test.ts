@@ -1,17 +1,17 @@
 // `run --redis` end to end with a deterministic failure among the jobs: the failing case is not retried (it fails
 // the same way every time), its reason reaches the ledger and runs.parquet, the good case is done, and the run
 // exits non-zero after writing the outputs.
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
 import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ensureCompiled, PROJECT_ROOT } from './helpers/compiled.js';
+import { killAll, startCli } from './helpers/cli-process.js';
+import { ensureCompiled } from './helpers/compiled.js';
 import { removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
 
-const CLI = join(PROJECT_ROOT, 'bin', 'loamwave.js');
 let redis: TestRedis;
 let scratch: string;
 const prefix = uniquePrefix('failures');
@@ -24,20 +24,13 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  for (const c of children) if (c.exitCode === null) c.kill('SIGKILL');
+  killAll(children);
   await removeKeys(redis.url, prefix);
   await redis.stop();
   rmSync(scratch, { recursive: true, force: true });
 });
 
-function start(args: string[]): { child: ChildProcess; log: () => string; exited: Promise<number | null> } {
-  const child = spawn(process.execPath, [CLI, ...args], { cwd: scratch, stdio: ['ignore', 'pipe', 'pipe'] });
-  children.push(child);
-  let text = '';
-  child.stdout!.on('data', (d) => (text += d));
-  child.stderr!.on('data', (d) => (text += d));
-  return { child, log: () => text, exited: new Promise((resolve) => child.once('exit', (code) => resolve(code))) };
-}
+const start = (args: string[]) => startCli(args, scratch, children);
 
 describe('run --redis with a failing case', () => {
   it('when one case is outside the impedance model then it fails once with its reason and the good case is done', async () => {
@@ -63,7 +56,7 @@ describe('run --redis with a failing case', () => {
     const q = ['--redis', redis.url, '--prefix', prefix];
     const worker = start(['worker', ...q, '--sweep', 'saltmarsh-lf']);
     const run = start(['run', sweep, '--out', out, '--json', ...q]);
-    const code = await run.exited;
+    const { code } = await run.exited;
     expect(code, run.log()).toBe(1);
     expect(run.log()).toContain('1 job(s) failed');
 
@@ -89,6 +82,6 @@ describe('run --redis with a failing case', () => {
     }
 
     worker.child.kill('SIGTERM');
-    expect(await worker.exited).toBe(0);
+    expect((await worker.exited).code).toBe(0);
   });
 });

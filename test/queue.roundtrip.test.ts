@@ -7,10 +7,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ensureCompiled, PROJECT_ROOT } from './helpers/compiled.js';
+import { CLI, killAll, runCli, until } from './helpers/cli-process.js';
+import { ensureCompiled } from './helpers/compiled.js';
 import { keysUnder, removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
 
-const CLI = join(PROJECT_ROOT, 'bin', 'loamwave.js');
 
 let redis: TestRedis;
 let scratch: string;
@@ -24,31 +24,13 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  for (const w of workers) if (w.exitCode === null) w.kill('SIGKILL');
+  killAll(workers);
   await removeKeys(redis.url, prefix);
   await redis.stop();
   rmSync(scratch, { recursive: true, force: true });
 });
 
-/** Run the command line without blocking this process (the workers' logs keep flowing meanwhile). */
-function cli(args: string[]): Promise<{ code: number | null; stdout: string; stderr: string }> {
-  return new Promise((resolve) => {
-    const child = spawn(process.execPath, [CLI, ...args], { cwd: scratch });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.on('data', (d) => (stdout += d));
-    child.stderr.on('data', (d) => (stderr += d));
-    child.on('close', (code) => resolve({ code, stdout, stderr }));
-  });
-}
-
-async function until(what: string, test: () => boolean, timeoutMs = 20_000): Promise<void> {
-  const end = Date.now() + timeoutMs;
-  while (!test()) {
-    if (Date.now() > end) throw new Error(`timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 50));
-  }
-}
+const cli = (args: string[]) => runCli(args, scratch);
 
 /** Results by job id from a ledger, wall time removed (the one field that differs between runs). */
 function resultsOf(outDir: string): Map<string, unknown> {

@@ -1,7 +1,7 @@
 // Fault injection on the Redis path with real processes: a worker killed with SIGKILL mid-job leaves the job to
 // the other worker (short lock and stall intervals so this ends in seconds), and a worker told to stop twice
 // cancels its case and hands the job back to the queue instead of failing it.
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -11,10 +11,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { queueNameFor } from '../worker/queue-payload.js';
 import { redisOptions } from '../worker/redis-connection.js';
 import { runCase } from '../worker/run-case.js';
-import { ensureCompiled, PROJECT_ROOT } from './helpers/compiled.js';
+import { killAll, startCli, until } from './helpers/cli-process.js';
+import { ensureCompiled } from './helpers/compiled.js';
 import { removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
-
-const CLI = join(PROJECT_ROOT, 'bin', 'loamwave.js');
 
 /** One job of about 4 s alone on this machine (48 cells per wavelength over 150 km × 40 km). */
 const slowBase = {
@@ -37,37 +36,13 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  for (const c of children) if (c.exitCode === null && c.signalCode === null) c.kill('SIGKILL');
+  killAll(children);
   for (const p of prefixes) await removeKeys(redis.url, p);
   await redis.stop();
   rmSync(scratch, { recursive: true, force: true });
 });
 
-interface Proc {
-  child: ChildProcess;
-  log: () => string;
-  exited: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
-}
-
-function start(args: string[]): Proc {
-  const child = spawn(process.execPath, [CLI, ...args], { cwd: scratch, stdio: ['ignore', 'pipe', 'pipe'] });
-  children.push(child);
-  let text = '';
-  child.stdout!.on('data', (d) => (text += d));
-  child.stderr!.on('data', (d) => (text += d));
-  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) =>
-    child.once('exit', (code, signal) => resolve({ code, signal })),
-  );
-  return { child, log: () => text, exited };
-}
-
-async function until(what: string, test: () => boolean, timeoutMs = 60_000): Promise<void> {
-  const end = Date.now() + timeoutMs;
-  while (!test()) {
-    if (Date.now() > end) throw new Error(`timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 50));
-  }
-}
+const start = (args: string[]) => startCli(args, scratch, children);
 
 function writeSweep(name: string): string {
   const path = join(scratch, `${name}.json`);

@@ -1,16 +1,16 @@
 // The embedded default, driven through the built command line: a sweep runs on local threads into the ledger
 // and the outputs, a rerun computes nothing, Ctrl-C leaves a ledger a rerun continues from, progress on a pipe
 // is plain text, and a bad sweep is one line with nothing written.
-import { spawn, spawnSync } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runCase } from '../worker/run-case.js';
-import { ensureCompiled, PROJECT_ROOT } from './helpers/compiled.js';
+import { CLI, runCliSync } from './helpers/cli-process.js';
+import { ensureCompiled } from './helpers/compiled.js';
 
-const CLI = join(PROJECT_ROOT, 'bin', 'loamwave.js');
 
 /** An invented inland path: conductivity × resolution, small enough for seconds in total. */
 function sweepYaml(name: string, cellsPerWavelength: number, conductivities: number[]): string {
@@ -28,16 +28,7 @@ function sweepYaml(name: string, cellsPerWavelength: number, conductivities: num
   ].join('\n');
 }
 
-interface Ran {
-  code: number | null;
-  stdout: string;
-  stderr: string;
-}
-
-function cli(args: string[], cwd: string, env: NodeJS.ProcessEnv = {}): Ran {
-  const r = spawnSync(process.execPath, [CLI, ...args], { cwd, env: { ...process.env, ...env }, encoding: 'utf8' });
-  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
-}
+const cli = runCliSync;
 
 function ledgerRows(dir: string): Array<{ job_id: string; status: string; attempts: number; result_json: string | null }> {
   const db = new Database(join(dir, 'ledger.sqlite'), { readonly: true });

@@ -1,16 +1,15 @@
 // `loamwave status`: counts by state from the ledger, the recent rate and ETA, and with --redis what the queue
 // holds; it reads only, and a sweep never run is one clear line.
-import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rateAndEta } from '../coordinator/commands/status.js';
 import type { LedgerJob } from '../coordinator/ledger.js';
-import { ensureCompiled, PROJECT_ROOT } from './helpers/compiled.js';
+import { runCliSync } from './helpers/cli-process.js';
+import { ensureCompiled } from './helpers/compiled.js';
 import { removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
 
-const CLI = join(PROJECT_ROOT, 'bin', 'loamwave.js');
 let scratch: string;
 let redis: TestRedis;
 const prefix = uniquePrefix('status');
@@ -26,10 +25,7 @@ afterAll(async () => {
   rmSync(scratch, { recursive: true, force: true });
 });
 
-function cli(args: string[]) {
-  const r = spawnSync(process.execPath, [CLI, ...args], { cwd: scratch, encoding: 'utf8' });
-  return { code: r.status, stdout: r.stdout, stderr: r.stderr };
-}
+const cli = (args: string[]) => runCliSync(args, scratch);
 
 function sweepFile(name: string, values: number[]): string {
   const p = join(scratch, `${name}.json`);
