@@ -146,13 +146,26 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
     const segs = c.ground.segments ?? [];
     const halfR = new Float64Array(nx);
     const lOverDt = new Float64Array(nx);
+    // A column that straddles a segment boundary takes the length-weighted mean of the impedances of the parts
+    // it covers, so a coastline between grid lines moves the answer smoothly with the cell size (common practice
+    // for sub-cell material boundaries).
+    const zs = segs.map((s) => groundImpedance(c.frequency_hz, s.conductivity_s_per_m, s.relative_permittivity));
     for (let i = 0; i < nx; i++) {
-      const x = (i + 0.5) * g.dxM;
-      let s = segs[0];
-      for (const seg of segs) if (seg.start_m <= x) s = seg;
-      const z = groundImpedance(c.frequency_hz, s.conductivity_s_per_m, s.relative_permittivity);
-      halfR[i] = z.resistanceOhm / 2;
-      lOverDt[i] = z.inductanceH / g.dtS;
+      const x0 = i * g.dxM;
+      const x1 = (i + 1) * g.dxM;
+      let r = 0;
+      let l = 0;
+      for (let j = 0; j < segs.length; j++) {
+        const a = Math.max(x0, segs[j].start_m);
+        const b = Math.min(x1, j + 1 < segs.length ? segs[j + 1].start_m : Infinity);
+        if (b > a) {
+          const w = (b - a) / g.dxM;
+          r += w * zs[j].resistanceOhm;
+          l += w * zs[j].inductanceH;
+        }
+      }
+      halfR[i] = r / 2;
+      lOverDt[i] = l / g.dtS;
     }
     const extrapolated = c.ground.impedance_sampling === 'extrapolated';
     zrow = { halfR, lOverDt, wNear: extrapolated ? 1.5 : 1, wFar: extrapolated ? -0.5 : 0, hsPrev: new Float64Array(nx) };
