@@ -1,4 +1,4 @@
-// convergence.parquet (and, on request, sensitivity.parquet): the analysis tables of a sweep, computed from the runs
+// convergence.parquet and sensitivity.parquet: the analysis tables of a sweep, computed from the runs
 // and fields tables just written (read back through the report's folder reader, so the files and the report agree),
 // with Parquet columns derived from the row schemas, which are the contract. Also the report page, from the same tables.
 import { renameSync } from 'node:fs';
@@ -53,8 +53,8 @@ export const ANALYSIS_FILES = { convergence: 'convergence.parquet', sensitivity:
 /**
  * Compute convergence.parquet (and sensitivity.parquet when `sensitivity` is set) from the tables published in
  * `dir` (runs.parquet, fields/ and the sweep copy), write them under `stagingDir` and rename them into `dir`, then
- * write report.html (atomically, by the report's own writer) from all of them. sensitivity.parquet is off by default
- * because the report, given that file, shows its rows without the notes on how they were sampled.
+ * write report.html (atomically, by the report's own writer) from all of them. The report restores its notes on
+ * how the sensitivity runs were sampled when it reads sensitivity.parquet back.
  */
 export async function writeAnalysisTables(
   dir: string,

@@ -21,7 +21,7 @@ export interface OutputOptions {
   readonly rowGroupRows?: number;
   /** Also write convergence.parquet and report.html. @defaultValue true */
   readonly analysis?: boolean;
-  /** Also write sensitivity.parquet (needs `analysis`). @defaultValue false (see analysis-tables.ts) */
+  /** Also write sensitivity.parquet (needs `analysis`). @defaultValue true */
   readonly sensitivityTable?: boolean;
   /** Skip the analysis (which holds every field row in memory) above this many field rows. @defaultValue 1000000 */
   readonly analysisMaxFieldRows?: number;
@@ -271,7 +271,7 @@ export async function writeOutputs(
       return summary;
     }
     // Second stage, from the tables just published: a failure here leaves runs.parquet and fields/ in place.
-    const analysis = await writeAnalysisTables(outDir, staging, { sensitivity: options.sensitivityTable ?? false });
+    const analysis = await writeAnalysisTables(outDir, staging, { sensitivity: options.sensitivityTable ?? true });
     summary.convergenceRows = analysis.convergence;
     summary.sensitivityRows = analysis.sensitivity;
     return summary;

@@ -253,7 +253,7 @@ describe('outputs', () => {
     ledger.commitResult(realResult(js[0]));
     await writeOutputs(ledger, s, JSON.stringify(input), out, { jobs: js });
     const outputs = () => readdirSync(out).filter((f) => !f.startsWith('ledger.sqlite')).sort();
-    expect(outputs()).toEqual(['convergence.parquet', 'fields', 'report.html', 'runs.parquet', 'sweep.json']);
+    expect(outputs()).toEqual(['convergence.parquet', 'fields', 'report.html', 'runs.parquet', 'sensitivity.parquet', 'sweep.json']);
     for (const j of js.slice(1)) ledger.commitResult(realResult(j));
     // Fault: a sweep copy the analysis cannot read back (YAML text that is no sweep) makes the second stage throw.
     await expect(writeOutputs(ledger, s, 'not: a sweep\n', out, { jobs: js })).rejects.toThrow('sweep.yaml');
