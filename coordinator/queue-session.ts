@@ -7,7 +7,7 @@ import { activeProgress, collectOnce, followCollection, retireQueue, type Collec
 import { submitSweep, type SubmitSummary } from './queue-submit.js';
 import { QueueHandles, queueTarget } from './queue-target.js';
 import type { QueueCliOptions } from './queue-options.js';
-import type { SweepRun } from './run-setup.js';
+import { openLedgerFor, prepareSweep, type SweepRun } from './run-setup.js';
 import { onStopSignals } from './stop-signals.js';
 import { SweepProgress } from './sweep-progress.js';
 
@@ -20,13 +20,25 @@ export interface QueueSessionResult {
   readonly stopped: boolean;
 }
 
-export async function withQueue<T>(run: SweepRun, opts: QueueCliOptions, body: (h: QueueHandles) => Promise<T>): Promise<T> {
-  const target = queueTarget({ redis: opts.redis!, redisCa: opts.redisCa, prefix: opts.prefix }, run.sweep.name);
+/**
+ * Validate the sweep and the queue options and connect to Redis before the output folder is touched, so a bad
+ * URL or an unreachable server leaves nothing behind; then open the ledger and run `body`. Closes everything.
+ */
+export async function withQueue<T>(
+  sweepPath: string,
+  opts: QueueCliOptions & { out?: string },
+  body: (run: SweepRun, handles: QueueHandles) => Promise<T>,
+): Promise<T> {
+  const prepared = prepareSweep(sweepPath, opts.out);
+  const target = queueTarget({ redis: opts.redis!, redisCa: opts.redisCa, prefix: opts.prefix }, prepared.sweep.name);
   const { handles, warnings } = await QueueHandles.open(target);
   for (const w of warnings) process.stderr.write(`warning: ${w}\n`);
+  let run: SweepRun | undefined;
   try {
-    return await body(handles);
+    run = openLedgerFor(prepared);
+    return await body(run, handles);
   } finally {
+    run?.ledger.close();
     await handles.close();
   }
 }

@@ -46,12 +46,15 @@ export class QueueHandles {
     const h = new QueueHandles(target);
     // Fail fast instead of retrying forever when the server is not there.
     h.client.options.retryStrategy = () => null;
-    h.client.on('error', () => undefined);
+    // The 'error' event carries the cause (ECONNREFUSED, WRONGPASS…); connect() itself only says the connection closed.
+    let cause: string | undefined;
+    h.client.on('error', (e: Error) => (cause ??= e.message));
     try {
       await h.client.connect();
     } catch (e) {
       await h.close();
-      throw new UserError(`--redis: cannot reach ${redactedUrl(target.url)} (${(e as Error).message}); start Redis or correct the URL`, 'loamwave.redis.unreachable', 3);
+      const why = cause ?? (e as Error).message;
+      throw new UserError(`--redis: cannot reach ${redactedUrl(target.url)} (${why}); start Redis or correct the URL`, 'loamwave.redis.unreachable', 3);
     }
     const warnings = await redisServerWarnings(h.client);
     return { handles: h, warnings };

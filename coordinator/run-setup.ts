@@ -29,22 +29,34 @@ export function outDirFor(sweep: Sweep, outOption?: string): string {
   return resolve(outOption ?? join('out', sweep.name));
 }
 
-/** Load, expand and register a sweep; nothing is written unless the sweep and all its cases are valid. */
-export function openSweepRun(sweepPath: string, outOption?: string): SweepRun {
+/** A validated, expanded sweep whose output folder has not been touched yet. */
+export type PreparedSweep = Omit<SweepRun, 'ledger' | 'added'>;
+
+/** Load and expand a sweep and estimate its jobs; writes nothing (a bad sweep or case throws UserError). */
+export function prepareSweep(sweepPath: string, outOption?: string): PreparedSweep {
   const { sweep, text, path } = loadSweep(sweepPath);
   const jobs = expandSweep(sweep, basename(path));
   const costById = new Map<string, number>();
   for (const j of jobs) costById.set(j.job_id, estimateCost(j.case).cell_updates);
-  const outDir = outDirFor(sweep, outOption);
-  const ledger = Ledger.open(outDir);
+  return { sweep, text, path, outDir: outDirFor(sweep, outOption), jobs, costById };
+}
+
+/** Open (or create) the ledger of a prepared sweep and add the jobs it does not hold yet. */
+export function openLedgerFor(prepared: PreparedSweep): SweepRun {
+  const ledger = Ledger.open(prepared.outDir);
   let added: number;
   try {
-    added = ledger.addJobs(jobs);
+    added = ledger.addJobs(prepared.jobs);
   } catch (e) {
     ledger.close();
     throw e;
   }
-  return { sweep, text, path, outDir, ledger, jobs, added, costById };
+  return { ...prepared, ledger, added };
+}
+
+/** Load, expand and register a sweep; nothing is written unless the sweep and all its cases are valid. */
+export function openSweepRun(sweepPath: string, outOption?: string): SweepRun {
+  return openLedgerFor(prepareSweep(sweepPath, outOption));
 }
 
 /** Open the ledger of a sweep that has been run or submitted before, without changing it (for `status`). */

@@ -4,7 +4,7 @@
 import type { Command } from 'commander';
 import { addQueueOptions, type QueueCliOptions } from '../queue-options.js';
 import { queueSession, withQueue } from '../queue-session.js';
-import { openSweepRun, writeSweepOutputs } from '../run-setup.js';
+import { writeSweepOutputs } from '../run-setup.js';
 import { EXIT_STOPPED } from '../stop-signals.js';
 
 interface CollectCliOptions extends QueueCliOptions {
@@ -25,9 +25,8 @@ export function registerCollect(program: Command): void {
     .option('--json', 'print what was collected as JSON on stdout');
   addQueueOptions(cmd, { required: true, what: 'the queue to collect from' });
   cmd.action(async (sweepPath: string, opts: CollectCliOptions) => {
-    const run = openSweepRun(sweepPath, opts.out);
-    try {
-      const r = await withQueue(run, opts, (handles) => queueSession(run, handles, { submit: false, follow: opts.follow === true, progress: true }));
+    await withQueue(sweepPath, opts, async (run, handles) => {
+      const r = await queueSession(run, handles, { submit: false, follow: opts.follow === true, progress: true });
       if (r.complete) await writeSweepOutputs(run, opts.report !== false);
       const counts = run.ledger.counts();
       if (opts.json) {
@@ -40,8 +39,6 @@ export function registerCollect(program: Command): void {
         );
       }
       if (r.stopped) process.exitCode = EXIT_STOPPED;
-    } finally {
-      run.ledger.close();
-    }
+    });
   });
 }

@@ -40,38 +40,49 @@ export function registerRun(program: Command): void {
   addQueueOptions(cmd, { required: false, what: 'submit to this queue and collect what the workers return' });
   cmd.action(async (sweepPath: string, opts: RunCliOptions) => {
     const started = performance.now();
+    if (opts.redis) {
+      await withQueue(sweepPath, opts, async (run, handles) => {
+        const r = await queueSession(run, handles, { submit: true, follow: true, progress: true });
+        await finish(run, { stopped: r.stopped, solvedNow: r.collected.committed, solverCalls: null }, opts, started);
+      });
+      return;
+    }
     const run = openSweepRun(sweepPath, opts.out);
     try {
-      const outcome = opts.redis ? await runQueued(run, opts) : await runEmbedded(run, opts);
-      const counts = run.ledger.counts();
-      if (outcome.stopped) {
-        process.stderr.write(`stopped: ${counts.done} of ${run.jobs.length} job(s) done; run the same command again to go on\n`);
-        process.exitCode = EXIT_STOPPED;
-      } else {
-        await writeSweepOutputs(run, opts.report !== false);
-        if (counts.failed > 0) {
-          process.stderr.write(`error: ${counts.failed} job(s) failed; their reasons are in the error column of runs.parquet (and \`loamwave status\`)\n`);
-          process.exitCode = EXIT_SOME_FAILED;
-        }
-      }
-      if (opts.json) {
-        const summary = {
-          sweep: run.sweep.name,
-          out_dir: run.outDir,
-          mode: opts.redis ? 'queue' : 'embedded',
-          jobs: run.jobs.length,
-          counts,
-          solved_now: outcome.solvedNow,
-          solver_calls: outcome.solverCalls,
-          stopped: outcome.stopped,
-          wall_time_s: (performance.now() - started) / 1000,
-        };
-        process.stdout.write(JSON.stringify(summary) + '\n');
-      }
+      await finish(run, await runEmbedded(run, opts), opts, started);
     } finally {
       run.ledger.close();
     }
   });
+}
+
+/** After the jobs: outputs (unless stopped), the exit code, and the --json summary. */
+async function finish(run: SweepRun, outcome: RunOutcome, opts: RunCliOptions, startedMs: number): Promise<void> {
+  const counts = run.ledger.counts();
+  if (outcome.stopped) {
+    process.stderr.write(`stopped: ${counts.done} of ${run.jobs.length} job(s) done; run the same command again to go on\n`);
+    process.exitCode = EXIT_STOPPED;
+  } else {
+    await writeSweepOutputs(run, opts.report !== false);
+    if (counts.failed > 0) {
+      process.stderr.write(`error: ${counts.failed} job(s) failed; their reasons are in the error column of runs.parquet (and \`loamwave status\`)\n`);
+      process.exitCode = EXIT_SOME_FAILED;
+    }
+  }
+  if (opts.json) {
+    const summary = {
+      sweep: run.sweep.name,
+      out_dir: run.outDir,
+      mode: opts.redis ? 'queue' : 'embedded',
+      jobs: run.jobs.length,
+      counts,
+      solved_now: outcome.solvedNow,
+      solver_calls: outcome.solverCalls,
+      stopped: outcome.stopped,
+      wall_time_s: (performance.now() - startedMs) / 1000,
+    };
+    process.stdout.write(JSON.stringify(summary) + '\n');
+  }
 }
 
 interface RunOutcome {
@@ -115,11 +126,4 @@ async function runEmbedded(run: SweepRun, opts: RunCliOptions): Promise<RunOutco
   }
   bar.finish(progress.state(new Map()));
   return { stopped: summary.stopped, solvedNow: summary.solved, solverCalls: summary.solverCalls };
-}
-
-async function runQueued(run: SweepRun, opts: RunCliOptions): Promise<RunOutcome> {
-  return withQueue(run, opts, async (handles) => {
-    const r = await queueSession(run, handles, { submit: true, follow: true, progress: true });
-    return { stopped: r.stopped, solvedNow: r.collected.committed, solverCalls: null };
-  });
 }

@@ -5,7 +5,6 @@ import type { Command } from 'commander';
 import { addQueueOptions, type QueueCliOptions } from '../queue-options.js';
 import { submitSweep } from '../queue-submit.js';
 import { withQueue } from '../queue-session.js';
-import { openSweepRun } from '../run-setup.js';
 
 interface SubmitCliOptions extends QueueCliOptions {
   out?: string;
@@ -21,20 +20,15 @@ export function registerSubmit(program: Command): void {
     .option('--json', 'print what was queued as JSON on stdout');
   addQueueOptions(cmd, { required: true, what: 'the queue to submit to' });
   cmd.action(async (sweepPath: string, opts: SubmitCliOptions) => {
-    const run = openSweepRun(sweepPath, opts.out);
-    try {
-      await withQueue(run, opts, async (handles) => {
-        const s = await submitSweep(handles, run.ledger, run.costById);
-        if (opts.json) {
-          process.stdout.write(
-            JSON.stringify({ sweep: run.sweep.name, queue: handles.target.queueName, prefix: handles.target.prefix, added: s.added, already_queued: s.alreadyQueued, finished: s.finished }) + '\n',
-          );
-        } else {
-          process.stderr.write(`${handles.target.queueName}: ${s.added} job(s) queued, ${s.alreadyQueued} already queued, ${s.finished} finished before\n`);
-        }
-      });
-    } finally {
-      run.ledger.close();
-    }
+    await withQueue(sweepPath, opts, async (run, handles) => {
+      const s = await submitSweep(handles, run.ledger, run.costById);
+      if (opts.json) {
+        process.stdout.write(
+          JSON.stringify({ sweep: run.sweep.name, queue: handles.target.queueName, prefix: handles.target.prefix, added: s.added, already_queued: s.alreadyQueued, finished: s.finished }) + '\n',
+        );
+      } else {
+        process.stderr.write(`${handles.target.queueName}: ${s.added} job(s) queued, ${s.alreadyQueued} already queued, ${s.finished} finished before\n`);
+      }
+    });
   });
 }

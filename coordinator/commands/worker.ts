@@ -36,12 +36,14 @@ export function registerWorker(program: Command): void {
     const log = (line: string) => process.stderr.write(`${new Date().toISOString()} ${line}\n`);
 
     const probe = new Redis({ ...connection, lazyConnect: true, retryStrategy: () => null });
-    probe.on('error', () => undefined);
+    let cause: string | undefined;
+    probe.on('error', (e: Error) => (cause ??= e.message));
     try {
       await probe.connect();
       for (const w of await redisServerWarnings(probe)) log(`warning: ${w}`);
     } catch (e) {
-      throw new UserError(`--redis: cannot reach ${redactedUrl(opts.redis)} (${(e as Error).message}); start Redis or correct the URL`, 'loamwave.redis.unreachable', 3);
+      const why = cause ?? (e as Error).message;
+      throw new UserError(`--redis: cannot reach ${redactedUrl(opts.redis)} (${why}); start Redis or correct the URL`, 'loamwave.redis.unreachable', 3);
     } finally {
       probe.disconnect();
     }
