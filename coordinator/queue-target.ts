@@ -56,6 +56,8 @@ export class QueueHandles {
       const why = cause ?? (e as Error).message;
       throw new UserError(`--redis: cannot reach ${redactedUrl(target.url)} (${why}); start Redis or correct the URL`, 'loamwave.redis.unreachable', 3);
     }
+    // Connected: from now on ride out a Redis restart like the BullMQ connections do (ioredis' default backoff).
+    h.client.options.retryStrategy = (times: number) => Math.min(times * 50, 2000);
     const warnings = await redisServerWarnings(h.client);
     return { handles: h, warnings };
   }

@@ -12,6 +12,11 @@ export interface TestRedis {
   stop(): Promise<void>;
 }
 
+export interface ThrowawayRedis extends TestRedis {
+  /** Kill the server with SIGKILL (a crash: no shutdown save). */
+  crash(): Promise<void>;
+}
+
 async function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {
     const srv = createServer();
@@ -65,26 +70,32 @@ export async function startRedis(extraArgs: string[] = []): Promise<TestRedis> {
     await waitForPing(process.env.REDIS_URL, 2000);
     return { url: process.env.REDIS_URL, stop: async () => undefined };
   }
+  return startThrowawayRedis(extraArgs);
+}
+
+/**
+ * Always a fresh redis-server from PATH (for tests that crash and restart it). `port` and `dir` let a restart
+ * reuse the address and the data folder (append-only file) of an earlier one.
+ */
+export async function startThrowawayRedis(extraArgs: string[] = [], at: { port?: number; dir?: string } = {}): Promise<ThrowawayRedis> {
   if (spawnSync('redis-server', ['--version']).status !== 0) {
     throw new Error('no Redis for the queue tests: set REDIS_URL=redis://host:port, or install redis-server (apt-get install redis-server)');
   }
-  const port = await freePort();
+  const port = at.port ?? (await freePort());
   const child: ChildProcess = spawn(
     'redis-server',
-    ['--port', String(port), '--bind', '127.0.0.1', '--save', '', '--appendonly', 'no', '--maxmemory-policy', 'noeviction', ...extraArgs],
+    ['--port', String(port), '--bind', '127.0.0.1', '--save', '', '--appendonly', 'no', '--maxmemory-policy', 'noeviction', ...(at.dir ? ['--dir', at.dir] : []), ...extraArgs],
     { stdio: 'ignore' },
   );
   const url = `redis://127.0.0.1:${port}`;
   await waitForPing(url, 5000);
-  return {
-    url,
-    stop: () =>
-      new Promise<void>((resolve) => {
-        if (child.exitCode !== null) return resolve();
-        child.once('exit', () => resolve());
-        child.kill('SIGTERM');
-      }),
-  };
+  const ended = (signal: NodeJS.Signals) =>
+    new Promise<void>((resolve) => {
+      if (child.exitCode !== null || child.signalCode !== null) return resolve();
+      child.once('exit', () => resolve());
+      child.kill(signal);
+    });
+  return { url, stop: () => ended('SIGTERM'), crash: () => ended('SIGKILL') };
 }
 
 /** A key prefix no other test uses. */
