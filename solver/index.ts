@@ -251,8 +251,12 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
     let re = 0;
     let im = 0;
     for (let t = sl[0]; t < sl[0] + sl[1]; t++) {
-      re += allTaps[t].weight * ph.re[t];
-      im += allTaps[t].weight * ph.im[t];
+      const tap = allTaps[t];
+      const th = -kWave * tap.offsetM; // advance to the receiver's range: e^{−jk·offset}
+      const c0 = Math.cos(th);
+      const s0 = Math.sin(th);
+      re += tap.weight * (ph.re[t] * c0 - ph.im[t] * s0);
+      im += tap.weight * (ph.re[t] * s0 + ph.im[t] * c0);
     }
     return { re: re * scale, im: im * scale };
   };

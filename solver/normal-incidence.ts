@@ -108,7 +108,7 @@ export function runNormalIncidence(c: Case): NormalIncidenceResult {
   const kS = g0 + Math.round(airRows * 0.7);
   const kC = g0 + Math.round(airRows * 0.8);
   const kD = g0 + Math.round(airRows * 0.9);
-  const taps: Tap[] = [kA, kB, kC, kD].map((k) => ({ field: 'ex', index: k, weight: 1, halfStepOffset: 2 }));
+  const taps: Tap[] = [kA, kB, kC, kD].map((k) => ({ field: 'ex', index: k, weight: 1, offsetM: 0, halfStepOffset: 2 }));
   const N = g.stepsPerPeriod;
   const dft = new RunningDft(taps, N);
   const omega = 2 * Math.PI * c.frequency_hz;
