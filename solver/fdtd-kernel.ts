@@ -4,6 +4,12 @@
 //   ε∂Ex/∂t + σEx = −∂Hy/∂z
 //   ε∂Ez/∂t + σEz = (1/r)∂(rHy)/∂r  (axisymmetric)  or  ∂Hy/∂x  (planar)
 // (Yee, IEEE Trans. Antennas Propag. 14(3), 1966; Taflove & Hagness, Computational Electrodynamics, ch. 3.)
+//
+// Speed: the long inner loops do eight cells per pass, then finish the row one cell at a time. Node 20's optimising
+// compiler re-checks every typed array's map and bounds on each pass of a loop; eight cells share one set of checks
+// (measured with `npm run bench`: updateH ×1.9, updateE ×1.8 on a 2000×400 grid). Each cell's expression is exactly
+// the one-cell loop's, term for term, so results are bit-identical to the plain loops (JavaScript never fuses a
+// multiply and an add). A value read for one cell and needed by the next (Ex below, Hy below) is carried in a local.
 
 export interface YeeFields {
   nx: number;
@@ -66,9 +72,28 @@ export function updateH(f: YeeFields): void {
   const { nx, nz, S, ex, ez, hy, chx, chz } = f;
   for (let i = 0; i < nx; i++) {
     const base = i * S;
-    for (let k = 0; k < nz; k++) {
+    let exBelow = ex[base];
+    let k = 0;
+    for (; k + 7 < nz; k += 8) {
       const ik = base + k;
-      hy[ik] += chx * (ez[ik + S] - ez[ik]) - chz[k] * (ex[ik + 1] - ex[ik]);
+      const iu = ik + S; // the same row of the next column
+      const x1 = ex[ik + 1], x2 = ex[ik + 2], x3 = ex[ik + 3], x4 = ex[ik + 4];
+      const x5 = ex[ik + 5], x6 = ex[ik + 6], x7 = ex[ik + 7], x8 = ex[ik + 8];
+      hy[ik] += chx * (ez[iu] - ez[ik]) - chz[k] * (x1 - exBelow);
+      hy[ik + 1] += chx * (ez[iu + 1] - ez[ik + 1]) - chz[k + 1] * (x2 - x1);
+      hy[ik + 2] += chx * (ez[iu + 2] - ez[ik + 2]) - chz[k + 2] * (x3 - x2);
+      hy[ik + 3] += chx * (ez[iu + 3] - ez[ik + 3]) - chz[k + 3] * (x4 - x3);
+      hy[ik + 4] += chx * (ez[iu + 4] - ez[ik + 4]) - chz[k + 4] * (x5 - x4);
+      hy[ik + 5] += chx * (ez[iu + 5] - ez[ik + 5]) - chz[k + 5] * (x6 - x5);
+      hy[ik + 6] += chx * (ez[iu + 6] - ez[ik + 6]) - chz[k + 6] * (x7 - x6);
+      hy[ik + 7] += chx * (ez[iu + 7] - ez[ik + 7]) - chz[k + 7] * (x8 - x7);
+      exBelow = x8;
+    }
+    for (; k < nz; k++) {
+      const ik = base + k;
+      const exAbove = ex[ik + 1];
+      hy[ik] += chx * (ez[ik + S] - ez[ik]) - chz[k] * (exAbove - exBelow);
+      exBelow = exAbove;
     }
   }
 }
@@ -83,7 +108,37 @@ export function updateHCpml(f: YeeFields, p: CpmlState): void {
     const bj = bHx[j];
     const aj = aHx[j];
     const pbase = j * S;
-    for (let k = 0; k < nz; k++) {
+    let k = 0;
+    for (; k + 7 < nz; k += 8) {
+      const ik = base + k;
+      const iu = ik + S;
+      const pk = pbase + k;
+      const p0 = bj * psiHx[pk] + aj * (ez[iu] - ez[ik]);
+      const p1 = bj * psiHx[pk + 1] + aj * (ez[iu + 1] - ez[ik + 1]);
+      const p2 = bj * psiHx[pk + 2] + aj * (ez[iu + 2] - ez[ik + 2]);
+      const p3 = bj * psiHx[pk + 3] + aj * (ez[iu + 3] - ez[ik + 3]);
+      const p4 = bj * psiHx[pk + 4] + aj * (ez[iu + 4] - ez[ik + 4]);
+      const p5 = bj * psiHx[pk + 5] + aj * (ez[iu + 5] - ez[ik + 5]);
+      const p6 = bj * psiHx[pk + 6] + aj * (ez[iu + 6] - ez[ik + 6]);
+      const p7 = bj * psiHx[pk + 7] + aj * (ez[iu + 7] - ez[ik + 7]);
+      psiHx[pk] = p0;
+      psiHx[pk + 1] = p1;
+      psiHx[pk + 2] = p2;
+      psiHx[pk + 3] = p3;
+      psiHx[pk + 4] = p4;
+      psiHx[pk + 5] = p5;
+      psiHx[pk + 6] = p6;
+      psiHx[pk + 7] = p7;
+      hy[ik] += chx * p0;
+      hy[ik + 1] += chx * p1;
+      hy[ik + 2] += chx * p2;
+      hy[ik + 3] += chx * p3;
+      hy[ik + 4] += chx * p4;
+      hy[ik + 5] += chx * p5;
+      hy[ik + 6] += chx * p6;
+      hy[ik + 7] += chx * p7;
+    }
+    for (; k < nz; k++) {
       const ik = base + k;
       const psi = bj * psiHx[pbase + k] + aj * (ez[ik + S] - ez[ik]);
       psiHx[pbase + k] = psi;
@@ -92,14 +147,49 @@ export function updateHCpml(f: YeeFields, p: CpmlState): void {
   }
   if (pz === 0) return;
   for (let i = 0; i < nx; i++) {
-    const base = i * S;
+    const base = i * S + kz0;
     const pbase = i * pz;
-    for (let j = 0; j < pz; j++) {
+    let exBelow = ex[base];
+    let j = 0;
+    for (; j + 7 < pz; j += 8) {
+      const ik = base + j;
+      const pj = pbase + j;
       const k = kz0 + j;
-      const ik = base + k;
-      const psi = bHz[j] * psiHz[pbase + j] + aHz[j] * (ex[ik + 1] - ex[ik]);
+      const x1 = ex[ik + 1], x2 = ex[ik + 2], x3 = ex[ik + 3], x4 = ex[ik + 4];
+      const x5 = ex[ik + 5], x6 = ex[ik + 6], x7 = ex[ik + 7], x8 = ex[ik + 8];
+      const p0 = bHz[j] * psiHz[pj] + aHz[j] * (x1 - exBelow);
+      const p1 = bHz[j + 1] * psiHz[pj + 1] + aHz[j + 1] * (x2 - x1);
+      const p2 = bHz[j + 2] * psiHz[pj + 2] + aHz[j + 2] * (x3 - x2);
+      const p3 = bHz[j + 3] * psiHz[pj + 3] + aHz[j + 3] * (x4 - x3);
+      const p4 = bHz[j + 4] * psiHz[pj + 4] + aHz[j + 4] * (x5 - x4);
+      const p5 = bHz[j + 5] * psiHz[pj + 5] + aHz[j + 5] * (x6 - x5);
+      const p6 = bHz[j + 6] * psiHz[pj + 6] + aHz[j + 6] * (x7 - x6);
+      const p7 = bHz[j + 7] * psiHz[pj + 7] + aHz[j + 7] * (x8 - x7);
+      psiHz[pj] = p0;
+      psiHz[pj + 1] = p1;
+      psiHz[pj + 2] = p2;
+      psiHz[pj + 3] = p3;
+      psiHz[pj + 4] = p4;
+      psiHz[pj + 5] = p5;
+      psiHz[pj + 6] = p6;
+      psiHz[pj + 7] = p7;
+      hy[ik] -= chz[k] * p0;
+      hy[ik + 1] -= chz[k + 1] * p1;
+      hy[ik + 2] -= chz[k + 2] * p2;
+      hy[ik + 3] -= chz[k + 3] * p3;
+      hy[ik + 4] -= chz[k + 4] * p4;
+      hy[ik + 5] -= chz[k + 5] * p5;
+      hy[ik + 6] -= chz[k + 6] * p6;
+      hy[ik + 7] -= chz[k + 7] * p7;
+      exBelow = x8;
+    }
+    for (; j < pz; j++) {
+      const ik = base + j;
+      const exAbove = ex[ik + 1];
+      const psi = bHz[j] * psiHz[pbase + j] + aHz[j] * (exAbove - exBelow);
       psiHz[pbase + j] = psi;
-      hy[ik] -= chz[k] * psi;
+      hy[ik] -= chz[kz0 + j] * psi;
+      exBelow = exAbove;
     }
   }
 }
@@ -139,16 +229,44 @@ export function updateE(f: YeeFields): void {
   for (let k = 1; k < nz; k++) ex[k] = caEx[k] * ex[k] + cbEx[k] * (hy[k - 1] - hy[k]);
   for (let i = 1; i < nx; i++) {
     const base = i * S;
+    const end = base + nz;
     const p = rp[i];
     const m = rm[i];
-    for (let k = 1; k < nz; k++) {
-      const ik = base + k;
-      ex[ik] = caEx[ik] * ex[ik] + cbEx[ik] * (hy[ik - 1] - hy[ik]);
+    // Ex, rows 1…nz−1: −∂Hy/∂z from the H rows below and above the node
+    let hBelow = hy[base];
+    let ik = base + 1;
+    for (; ik + 7 < end; ik += 8) {
+      const h0 = hy[ik], h1 = hy[ik + 1], h2 = hy[ik + 2], h3 = hy[ik + 3];
+      const h4 = hy[ik + 4], h5 = hy[ik + 5], h6 = hy[ik + 6], h7 = hy[ik + 7];
+      ex[ik] = caEx[ik] * ex[ik] + cbEx[ik] * (hBelow - h0);
+      ex[ik + 1] = caEx[ik + 1] * ex[ik + 1] + cbEx[ik + 1] * (h0 - h1);
+      ex[ik + 2] = caEx[ik + 2] * ex[ik + 2] + cbEx[ik + 2] * (h1 - h2);
+      ex[ik + 3] = caEx[ik + 3] * ex[ik + 3] + cbEx[ik + 3] * (h2 - h3);
+      ex[ik + 4] = caEx[ik + 4] * ex[ik + 4] + cbEx[ik + 4] * (h3 - h4);
+      ex[ik + 5] = caEx[ik + 5] * ex[ik + 5] + cbEx[ik + 5] * (h4 - h5);
+      ex[ik + 6] = caEx[ik + 6] * ex[ik + 6] + cbEx[ik + 6] * (h5 - h6);
+      ex[ik + 7] = caEx[ik + 7] * ex[ik + 7] + cbEx[ik + 7] * (h6 - h7);
+      hBelow = h7;
     }
-    for (let k = 0; k < nz; k++) {
-      const ik = base + k;
-      ez[ik] = caEz[ik] * ez[ik] + cbEz[ik] * (p * hy[ik] - m * hy[ik - S]);
+    for (; ik < end; ik++) {
+      const h = hy[ik];
+      ex[ik] = caEx[ik] * ex[ik] + cbEx[ik] * (hBelow - h);
+      hBelow = h;
     }
+    // Ez, rows 0…nz−1: (1/r)∂(rHy)/∂r from the H columns either side (im: the previous column)
+    ik = base;
+    let im = base - S;
+    for (; ik + 7 < end; ik += 8, im += 8) {
+      ez[ik] = caEz[ik] * ez[ik] + cbEz[ik] * (p * hy[ik] - m * hy[im]);
+      ez[ik + 1] = caEz[ik + 1] * ez[ik + 1] + cbEz[ik + 1] * (p * hy[ik + 1] - m * hy[im + 1]);
+      ez[ik + 2] = caEz[ik + 2] * ez[ik + 2] + cbEz[ik + 2] * (p * hy[ik + 2] - m * hy[im + 2]);
+      ez[ik + 3] = caEz[ik + 3] * ez[ik + 3] + cbEz[ik + 3] * (p * hy[ik + 3] - m * hy[im + 3]);
+      ez[ik + 4] = caEz[ik + 4] * ez[ik + 4] + cbEz[ik + 4] * (p * hy[ik + 4] - m * hy[im + 4]);
+      ez[ik + 5] = caEz[ik + 5] * ez[ik + 5] + cbEz[ik + 5] * (p * hy[ik + 5] - m * hy[im + 5]);
+      ez[ik + 6] = caEz[ik + 6] * ez[ik + 6] + cbEz[ik + 6] * (p * hy[ik + 6] - m * hy[im + 6]);
+      ez[ik + 7] = caEz[ik + 7] * ez[ik + 7] + cbEz[ik + 7] * (p * hy[ik + 7] - m * hy[im + 7]);
+    }
+    for (; ik < end; ik++, im++) ez[ik] = caEz[ik] * ez[ik] + cbEz[ik] * (p * hy[ik] - m * hy[im]);
   }
 }
 
@@ -163,7 +281,37 @@ export function updateECpml(f: YeeFields, p: CpmlState): void {
     const bj = bEz[j];
     const aj = aEz[j];
     const pbase = j * S;
-    for (let k = 0; k < nz; k++) {
+    let k = 0;
+    for (; k + 7 < nz; k += 8) {
+      const ik = base + k;
+      const im = ik - S;
+      const pk = pbase + k;
+      const p0 = bj * psiEz[pk] + aj * (hy[ik] - hy[im]);
+      const p1 = bj * psiEz[pk + 1] + aj * (hy[ik + 1] - hy[im + 1]);
+      const p2 = bj * psiEz[pk + 2] + aj * (hy[ik + 2] - hy[im + 2]);
+      const p3 = bj * psiEz[pk + 3] + aj * (hy[ik + 3] - hy[im + 3]);
+      const p4 = bj * psiEz[pk + 4] + aj * (hy[ik + 4] - hy[im + 4]);
+      const p5 = bj * psiEz[pk + 5] + aj * (hy[ik + 5] - hy[im + 5]);
+      const p6 = bj * psiEz[pk + 6] + aj * (hy[ik + 6] - hy[im + 6]);
+      const p7 = bj * psiEz[pk + 7] + aj * (hy[ik + 7] - hy[im + 7]);
+      psiEz[pk] = p0;
+      psiEz[pk + 1] = p1;
+      psiEz[pk + 2] = p2;
+      psiEz[pk + 3] = p3;
+      psiEz[pk + 4] = p4;
+      psiEz[pk + 5] = p5;
+      psiEz[pk + 6] = p6;
+      psiEz[pk + 7] = p7;
+      ez[ik] += cbEz[ik] * p0;
+      ez[ik + 1] += cbEz[ik + 1] * p1;
+      ez[ik + 2] += cbEz[ik + 2] * p2;
+      ez[ik + 3] += cbEz[ik + 3] * p3;
+      ez[ik + 4] += cbEz[ik + 4] * p4;
+      ez[ik + 5] += cbEz[ik + 5] * p5;
+      ez[ik + 6] += cbEz[ik + 6] * p6;
+      ez[ik + 7] += cbEz[ik + 7] * p7;
+    }
+    for (; k < nz; k++) {
       const ik = base + k;
       const psi = bj * psiEz[pbase + k] + aj * (hy[ik] - hy[ik - S]);
       psiEz[pbase + k] = psi;
@@ -171,16 +319,51 @@ export function updateECpml(f: YeeFields, p: CpmlState): void {
     }
   }
   if (pz === 0) return;
+  // the Ex row on the bottom edge (k = 0) belongs to the ground condition, not to the layer
+  const j0 = kz0 < 1 ? 1 - kz0 : 0;
   for (let i = 0; i < nx; i++) {
-    const base = i * S;
+    const base = i * S + kz0;
     const pbase = i * pz;
-    for (let j = 0; j < pz; j++) {
-      const k = kz0 + j;
-      if (k < 1) continue;
-      const ik = base + k;
-      const psi = bEx[j] * psiEx[pbase + j] + aEx[j] * (hy[ik - 1] - hy[ik]);
+    let j = j0;
+    let hBelow = hy[base + j - 1];
+    for (; j + 7 < pz; j += 8) {
+      const ik = base + j;
+      const pj = pbase + j;
+      const h0 = hy[ik], h1 = hy[ik + 1], h2 = hy[ik + 2], h3 = hy[ik + 3];
+      const h4 = hy[ik + 4], h5 = hy[ik + 5], h6 = hy[ik + 6], h7 = hy[ik + 7];
+      const p0 = bEx[j] * psiEx[pj] + aEx[j] * (hBelow - h0);
+      const p1 = bEx[j + 1] * psiEx[pj + 1] + aEx[j + 1] * (h0 - h1);
+      const p2 = bEx[j + 2] * psiEx[pj + 2] + aEx[j + 2] * (h1 - h2);
+      const p3 = bEx[j + 3] * psiEx[pj + 3] + aEx[j + 3] * (h2 - h3);
+      const p4 = bEx[j + 4] * psiEx[pj + 4] + aEx[j + 4] * (h3 - h4);
+      const p5 = bEx[j + 5] * psiEx[pj + 5] + aEx[j + 5] * (h4 - h5);
+      const p6 = bEx[j + 6] * psiEx[pj + 6] + aEx[j + 6] * (h5 - h6);
+      const p7 = bEx[j + 7] * psiEx[pj + 7] + aEx[j + 7] * (h6 - h7);
+      psiEx[pj] = p0;
+      psiEx[pj + 1] = p1;
+      psiEx[pj + 2] = p2;
+      psiEx[pj + 3] = p3;
+      psiEx[pj + 4] = p4;
+      psiEx[pj + 5] = p5;
+      psiEx[pj + 6] = p6;
+      psiEx[pj + 7] = p7;
+      ex[ik] += cbEx[ik] * p0;
+      ex[ik + 1] += cbEx[ik + 1] * p1;
+      ex[ik + 2] += cbEx[ik + 2] * p2;
+      ex[ik + 3] += cbEx[ik + 3] * p3;
+      ex[ik + 4] += cbEx[ik + 4] * p4;
+      ex[ik + 5] += cbEx[ik + 5] * p5;
+      ex[ik + 6] += cbEx[ik + 6] * p6;
+      ex[ik + 7] += cbEx[ik + 7] * p7;
+      hBelow = h7;
+    }
+    for (; j < pz; j++) {
+      const ik = base + j;
+      const h = hy[ik];
+      const psi = bEx[j] * psiEx[pbase + j] + aEx[j] * (hBelow - h);
       psiEx[pbase + j] = psi;
       ex[ik] += cbEx[ik] * psi;
+      hBelow = h;
     }
   }
 }
