@@ -133,10 +133,18 @@ export function buildBenchGrid(nx: number, nz: number): BenchGrid {
   return { fields, pml, zrow, sourceIndex: Math.floor(nx / 4) * S + slabRows + Math.floor(nz / 16), omegaDt: omega * dtS };
 }
 
-/** Advance `steps` leapfrog steps in the order solve() uses; returns the seconds spent (monotonic clock). */
-export function runKernel(g: BenchGrid, variant: KernelVariant, steps: number): number {
+export interface KernelTiming {
+  /** Wall-clock seconds (monotonic clock). */
+  wallS: number;
+  /** CPU seconds this process used meanwhile; cpuS/wallS below 1 means the machine was busy. */
+  cpuS: number;
+}
+
+/** Advance `steps` leapfrog steps in the order solve() uses, timing them. */
+export function runKernel(g: BenchGrid, variant: KernelVariant, steps: number): KernelTiming {
   const { fields, pml, zrow, sourceIndex, omegaDt } = g;
   const withPml = variant === 'cpml';
+  const cpu0 = process.cpuUsage();
   const t0 = process.hrtime.bigint();
   for (let n = 0; n < steps; n++) {
     updateH(fields);
@@ -146,7 +154,9 @@ export function runKernel(g: BenchGrid, variant: KernelVariant, steps: number): 
     if (withPml) updateECpml(fields, pml);
     fields.ez[sourceIndex] += Math.sin(omegaDt * (n + 1));
   }
-  return Number(process.hrtime.bigint() - t0) / 1e9;
+  const wallS = Number(process.hrtime.bigint() - t0) / 1e9;
+  const cpu = process.cpuUsage(cpu0);
+  return { wallS, cpuS: (cpu.user + cpu.system) / 1e6 };
 }
 
 /** Sum of squares of every field, so a run whose result is never read cannot be optimised away. */

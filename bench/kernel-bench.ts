@@ -7,7 +7,7 @@ import { Command, InvalidArgumentError } from 'commander';
 import { solve } from '../solver/index.js';
 import { demoCase } from './bench-cases.js';
 import { buildBenchGrid, fieldEnergy, runKernel, type KernelVariant } from './bench-grid.js';
-import { buildNativeReference, runNativeReference, type NativeReference } from './native-reference.js';
+import { buildNativeReference, defaultReferenceDir, runNativeReference, type NativeReference } from './native-reference.js';
 
 interface GridSize {
   name: string;
@@ -38,8 +38,10 @@ interface SizeResult {
   /** Ours ÷ native base, medians taken in the same run (null when the native reference was skipped). */
   plainRatio: number | null;
   cpmlRatio: number | null;
-  /** Every run, for the record. */
+  /** Every run's Mcells/s, for the record. */
   runs: { nativeBase: number[]; plain: number[]; cpml: number[] };
+  /** Median CPU-time ÷ wall-time share of the runs: below 1, other work took the core for the rest. */
+  cpuShare: { nativeBase: number | null; ours: number };
 }
 
 interface BenchReport {
@@ -77,10 +79,20 @@ function benchSize(size: GridSize, repeats: number, ref: NativeReference | undef
   const cells = nx * nz * steps;
   const grids: Record<KernelVariant, ReturnType<typeof buildBenchGrid>> = { plain: buildBenchGrid(nx, nz), cpml: buildBenchGrid(nx, nz) };
   const runs = { nativeBase: [] as number[], plain: [] as number[], cpml: [] as number[] };
+  const nativeShares: number[] = [];
+  const ourShares: number[] = [];
   // interleave the three measurements so drifting load on the shared machine touches each alike
   for (let r = 0; r < repeats; r++) {
-    if (ref) runs.nativeBase.push(runNativeReference(ref, nx, nz, steps, 'base').mcellsPerS);
-    for (const v of ['plain', 'cpml'] as const) runs[v].push(cells / runKernel(grids[v], v, steps) / 1e6);
+    if (ref) {
+      const run = runNativeReference(ref, nx, nz, steps, 'base');
+      runs.nativeBase.push(run.mcellsPerS);
+      if (run.cpuShare !== null) nativeShares.push(run.cpuShare);
+    }
+    for (const v of ['plain', 'cpml'] as const) {
+      const t = runKernel(grids[v], v, steps);
+      runs[v].push(cells / t.wallS / 1e6);
+      ourShares.push(t.cpuS / t.wallS);
+    }
     log(`  ${size.name} ${nx}×${nz}, ${steps} steps: run ${r + 1}/${repeats}`);
   }
   for (const v of ['plain', 'cpml'] as const) {
@@ -100,6 +112,7 @@ function benchSize(size: GridSize, repeats: number, ref: NativeReference | undef
     plainRatio: nativeBase ? plain / nativeBase : null,
     cpmlRatio: nativeBase ? cpml / nativeBase : null,
     runs,
+    cpuShare: { nativeBase: nativeShares.length ? median(nativeShares) : null, ours: median(ourShares) },
   };
 }
 
@@ -138,9 +151,9 @@ function printTable(rep: BenchReport): void {
   out.push(`node ${rep.node}, ${rep.cpu}, main thread ${rep.pinnedToCore0 ? 'pinned to core 0' : 'not pinned'}`);
   out.push(`load average before ${rep.loadAverageBefore.map((l) => l.toFixed(2)).join(' ')}, after ${rep.loadAverageAfter.map((l) => l.toFixed(2)).join(' ')}`);
   out.push('build' in rep.native ? `native reference: ${rep.native.build}, base variant` : `native reference skipped: ${rep.native.skipped}`);
-  out.push(`Mcells/s = nx·nz·steps / s / 1e6, median of ${rep.repeats}, one core`);
+  out.push(`Mcells/s = nx·nz·steps / wall s / 1e6, median of ${rep.repeats}, one core; CPU share = CPU s / wall s (1: the core was ours)`);
   out.push('');
-  const header = ['grid', 'nx×nz', 'steps', 'C base', 'ours plain', 'plain/C', 'ours +CPML', 'CPML/C'];
+  const header = ['grid', 'nx×nz', 'steps', 'C base', 'ours plain', 'plain/C', 'ours +CPML', 'CPML/C', 'CPU share C/ours'];
   const rows = rep.sizes.map((s) => [
     s.grid,
     `${s.nx}×${s.nz}`,
@@ -150,6 +163,7 @@ function printTable(rep: BenchReport): void {
     fmt(s.plainRatio, 2),
     fmt(s.cpmlMcellsPerS, 0),
     fmt(s.cpmlRatio, 2),
+    `${fmt(s.cpuShare.nativeBase, 2)} / ${fmt(s.cpuShare.ours, 2)}`,
   ]);
   const widths = header.map((h, j) => Math.max(h.length, ...rows.map((r) => r[j].length)));
   const line = (cells: string[]): string => cells.map((c, j) => (j < 2 ? c.padEnd(widths[j]) : c.padStart(widths[j]))).join('  ');
@@ -183,13 +197,14 @@ async function main(): Promise<void> {
     .option('--repeats <n>', 'timed runs per measurement (the median is reported)', positiveInt, 3)
     .option('--grids <names>', 'comma-separated grids: small, medium, large', sizeList, SIZES.map((s) => s.name))
     .option('--no-native', 'skip the native C reference')
+    .option('--native-dir <path>', 'folder holding fdtd2d.c', defaultReferenceDir())
     .parse();
-  const opts = program.opts<{ json?: boolean; repeats: number; grids: string[]; native: boolean }>();
+  const opts = program.opts<{ json?: boolean; repeats: number; grids: string[]; native: boolean; nativeDir: string }>();
   const log = (s: string): void => void process.stderr.write(s + '\n');
 
   const loadAverageBefore = loadavg();
   const pinned = pinMainThread();
-  const built = opts.native ? buildNativeReference() : 'skipped with --no-native';
+  const built = opts.native ? buildNativeReference(opts.nativeDir) : 'skipped with --no-native';
   const ref = typeof built === 'string' ? undefined : built;
   if (typeof built === 'string') log(`native reference skipped: ${built}`);
   try {

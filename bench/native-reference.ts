@@ -20,6 +20,8 @@ export interface NativeReference {
   build: string;
   /** Whether runs are pinned with `taskset -c 0`. */
   pinned: boolean;
+  /** Whether /usr/bin/time is there to report each run's CPU share. */
+  timed: boolean;
   /** Remove the temporary build directory. */
   dispose(): void;
 }
@@ -31,7 +33,11 @@ export interface NativeRun {
   steps: number;
   seconds: number;
   mcellsPerS: number;
+  /** CPU seconds over wall seconds of the whole process (set-up included), from /usr/bin/time; null without it. */
+  cpuShare: number | null;
 }
+
+const TIME_BIN = '/usr/bin/time';
 
 function onPath(cmd: string): boolean {
   return spawnSync('sh', ['-c', `command -v ${cmd}`], { stdio: 'ignore' }).status === 0;
@@ -55,6 +61,7 @@ export function buildNativeReference(referenceDir = defaultReferenceDir()): Nati
     executable,
     build: `gcc ${args.join(' ').replace(executable, '<tmp>/fdtd2d_o3')}`,
     pinned: onPath('taskset'),
+    timed: existsSync(TIME_BIN),
     dispose: () => rmSync(dir, { recursive: true, force: true }),
   };
 }
@@ -79,14 +86,19 @@ export function parseNativeLine(line: string): NativeRun {
     steps: num('steps'),
     seconds: num('seconds'),
     mcellsPerS: num('mcells'),
+    cpuShare: null,
   };
 }
 
 /** One timed run of the reference (`base` variant unless told), pinned to core 0 when taskset exists. */
 export function runNativeReference(ref: NativeReference, nx: number, nz: number, steps: number, variant = 'base'): NativeRun {
-  const args = [String(nx), String(nz), String(steps), variant];
-  const out = ref.pinned
-    ? execFileSync('taskset', ['-c', '0', ref.executable, ...args], { encoding: 'utf8' })
-    : execFileSync(ref.executable, args, { encoding: 'utf8' });
-  return parseNativeLine(out);
+  let argv = [ref.executable, String(nx), String(nz), String(steps), variant];
+  if (ref.pinned) argv = ['taskset', '-c', '0', ...argv];
+  if (ref.timed) argv = [TIME_BIN, '-f', 'loamwave-time user=%U sys=%S wall=%e', ...argv];
+  const r = spawnSync(argv[0], argv.slice(1), { encoding: 'utf8' });
+  if (r.status !== 0) throw new Error(`native reference failed (${argv.join(' ')}): ${r.stderr.trim()}`);
+  const run = parseNativeLine(r.stdout);
+  const t = /loamwave-time user=([\d.]+) sys=([\d.]+) wall=([\d.]+)/.exec(r.stderr);
+  if (t && Number(t[3]) > 0) run.cpuShare = (Number(t[1]) + Number(t[2])) / Number(t[3]);
+  return run;
 }

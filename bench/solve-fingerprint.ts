@@ -1,15 +1,38 @@
-// Prints, per small bench case, the SHA-256 of JSON.stringify(solve(case)) and the demo case's too, so a kernel
-// change can be checked bit-identical: `node dist/bench/solve-fingerprint.js > before.json`, change, run again,
-// `node dist/bench/solve-fingerprint.js --compare before.json` (exit 1 on any difference).
+// Prints, per case, the SHA-256 of JSON.stringify(solve(case)), so a kernel change can be checked bit-identical:
+//   node dist/bench/solve-fingerprint.js [CASE.json …] > before.json      (the bench's small cases, the demo, files)
+//   … change the kernel, rebuild …
+//   node dist/bench/solve-fingerprint.js [CASE.json …] --compare before.json   (exit 1 on any difference)
 import { createHash } from 'node:crypto';
 import { readFileSync } from 'node:fs';
+import { parseCase, type Case } from '../schemas/case.js';
+import { UserError } from '../schemas/errors.js';
 import { solve } from '../solver/index.js';
 import { demoCase, fingerprintCases } from './bench-cases.js';
 
-function fingerprints(withDemo: boolean): Record<string, { sha256: string; steps: number; cells: number }> {
-  const out: Record<string, { sha256: string; steps: number; cells: number }> = {};
-  const cases = fingerprintCases();
-  if (withDemo) cases.push(['demo: Brackenholt beacon 20 kHz', demoCase()]);
+interface Fingerprint {
+  sha256: string;
+  steps: number;
+  cells: number;
+}
+
+function readCaseFile(path: string): Case {
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch {
+    throw new UserError(`${path}: cannot read the case file; check the path`);
+  }
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch (e) {
+    throw new UserError(`${path}: not valid JSON (${(e as Error).message})`);
+  }
+  return parseCase(json, path);
+}
+
+function fingerprints(cases: Array<[string, Case]>): Record<string, Fingerprint> {
+  const out: Record<string, Fingerprint> = {};
   for (const [name, c] of cases) {
     const r = solve(c);
     out[name] = { sha256: createHash('sha256').update(JSON.stringify(r)).digest('hex'), steps: r.grid.steps, cells: r.grid.cells_total };
@@ -18,24 +41,40 @@ function fingerprints(withDemo: boolean): Record<string, { sha256: string; steps
   return out;
 }
 
-const argv = process.argv.slice(2);
-const compareAt = argv.indexOf('--compare');
-const now = fingerprints(!argv.includes('--no-demo'));
-if (compareAt < 0) {
-  process.stdout.write(JSON.stringify(now, null, 2) + '\n');
-} else {
-  const file = argv[compareAt + 1];
-  if (!file) {
-    process.stderr.write('error: --compare needs the file written by an earlier run\n');
-    process.exit(2);
+function main(argv: string[]): number {
+  let compareFile: string | undefined;
+  let withDemo = true;
+  const files: string[] = [];
+  for (let a = 0; a < argv.length; a++) {
+    if (argv[a] === '--compare') {
+      compareFile = argv[++a];
+      if (!compareFile) throw new UserError('--compare: needs the file written by an earlier run, e.g. --compare before.json');
+    } else if (argv[a] === '--no-demo') withDemo = false;
+    else if (argv[a].startsWith('--')) throw new UserError(`unknown option ${argv[a]}; use --compare FILE, --no-demo or case file paths`);
+    else files.push(argv[a]);
   }
-  const before = JSON.parse(readFileSync(file, 'utf8')) as typeof now;
+  const before = compareFile ? (JSON.parse(readFileSync(compareFile, 'utf8')) as Record<string, Fingerprint>) : undefined;
+  const cases = fingerprintCases();
+  if (withDemo) cases.push(['demo: Brackenholt beacon 20 kHz', demoCase()]);
+  for (const f of files) cases.push([f, readCaseFile(f)]);
+  const now = fingerprints(cases);
+  if (!before) {
+    process.stdout.write(JSON.stringify(now, null, 2) + '\n');
+    return 0;
+  }
   let differ = 0;
   for (const [name, fp] of Object.entries(now)) {
     const was = before[name]?.sha256;
-    const same = was === fp.sha256;
-    if (!same) differ++;
-    process.stdout.write(`${same ? 'identical' : was ? 'DIFFERENT' : 'new      '}  ${name}\n`);
+    if (was !== fp.sha256) differ++;
+    process.stdout.write(`${was === fp.sha256 ? 'identical' : was ? 'DIFFERENT' : 'not in the earlier file'}  ${name}\n`);
   }
-  process.exit(differ > 0 ? 1 : 0);
+  return differ > 0 ? 1 : 0;
+}
+
+try {
+  process.exitCode = main(process.argv.slice(2));
+} catch (e) {
+  if (!(e instanceof UserError)) throw e;
+  process.stderr.write(`error: ${e.message}\n`);
+  process.exitCode = e.exitCode;
 }
