@@ -45,7 +45,11 @@ const SMALL_INPUTS: Record<string, CaseInput> = {
   },
   'axisymmetric resolved ground under an exponential ionosphere': {
     frequency_hz: 20_000,
-    ground: { model: 'resolved', segments: [{ start_m: 0, conductivity_s_per_m: 0.5, relative_permittivity: 20 }], resolved_depth_skin_depths: 3 },
+    ground: {
+      model: 'resolved',
+      segments: [{ start_m: 0, conductivity_s_per_m: 0.5, relative_permittivity: 20 }],
+      resolved_depth_skin_depths: 3,
+    },
     upper_boundary: { kind: 'exponential', h_prime_km: 70, beta_per_km: 0.5 },
     domain: { range_m: 60_000, height_m: 90_000 },
     grid: { cells_per_wavelength: 8, absorbing_cells: 10 },

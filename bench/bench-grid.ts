@@ -51,7 +51,8 @@ export function buildBenchGrid(nx: number, nz: number): BenchGrid {
       const inSlab = k < slabRows;
       const eps = EPS0 * (inSlab ? 4 : 1);
       const sigma = inSlab ? 0.005 * (1 + (i % 16) / 16) : 0;
-      // semi-implicit loss: a = σΔt/(2ε), ca = (1−a)/(1+a), cb = (Δt/ε)/(1+a)/Δ (Taflove & Hagness 2005, ch. 3, lossy media)
+      // semi-implicit loss: a = σΔt/(2ε), ca = (1−a)/(1+a), cb = (Δt/ε)/(1+a)/Δ
+      // (Taflove & Hagness 2005, ch. 3, lossy media)
       const a = (sigma * dtS) / (2 * eps);
       const ca = (1 - a) / (1 + a);
       const cb = dtS / eps / (1 + a) / CELL_M;
@@ -89,7 +90,9 @@ export function buildBenchGrid(nx: number, nz: number): BenchGrid {
   };
   // deterministic integer patterns, so every cell carries a non-zero value from the first step
   for (let i = 1; i < nx; i++) for (let k = 0; k < nz; k++) fields.ez[i * S + k] = 1e-3 * (((i * 7 + k * 13) % 17) - 8);
-  for (let i = 0; i < nx; i++) for (let k = 0; k < nz; k++) fields.hy[i * S + k] = 2.5e-6 * (((i * 11 + k * 5) % 19) - 9);
+  for (let i = 0; i < nx; i++) {
+    for (let k = 0; k < nz; k++) fields.hy[i * S + k] = 2.5e-6 * (((i * 11 + k * 5) % 19) - 9);
+  }
 
   const px = Math.min(BENCH_PML_CELLS, nx - 1);
   const pz = Math.min(BENCH_PML_CELLS, nz - 1);
@@ -130,7 +133,8 @@ export function buildBenchGrid(nx: number, nz: number): BenchGrid {
     hsPrev: new Float64Array(nx),
   };
   for (let i = 0; i < nx; i++) zrow.hsPrev[i] = fields.hy[i * S];
-  return { fields, pml, zrow, sourceIndex: Math.floor(nx / 4) * S + slabRows + Math.floor(nz / 16), omegaDt: omega * dtS };
+  const sourceIndex = Math.floor(nx / 4) * S + slabRows + Math.floor(nz / 16);
+  return { fields, pml, zrow, sourceIndex, omegaDt: omega * dtS };
 }
 
 export interface KernelTiming {
