@@ -14,8 +14,12 @@ import {
   type YeeFields,
 } from '../solver/fdtd-kernel.js';
 
-/** `plain`: updateH + surface-impedance row + updateE; `cpml`: the same with both CPML updates. */
-export type KernelVariant = 'plain' | 'cpml';
+/**
+ * `plain`: updateH + surface-impedance row + updateE on per-cell coefficient arrays (the native reference's layout);
+ * `cpml`: the same with both CPML updates; `profiles`: the plain step with coefficients shared by column profile,
+ * as `solve()` lays them out (the slab's 16 conductivities are 16 profiles).
+ */
+export type KernelVariant = 'plain' | 'cpml' | 'profiles';
 
 export interface BenchGrid {
   fields: YeeFields;
@@ -35,9 +39,11 @@ const CELL_M = 0.01;
 const CONDUCTOR_S_PER_M = 1e4;
 
 /** Build an nx × nz grid (cells), one stride S = nz + 1 for every array, as solver/grid.ts lays it out. */
-export function buildBenchGrid(nx: number, nz: number): BenchGrid {
+export function buildBenchGrid(nx: number, nz: number, layout: 'per-cell' | 'profiles' = 'per-cell'): BenchGrid {
   const S = nz + 1;
   const size = (nx + 1) * S;
+  const colEx = new Int32Array(nx + 1);
+  for (let i = 0; i <= nx; i++) colEx[i] = layout === 'per-cell' ? i * S : (i % 16) * S;
   // 2-D Courant limit Δt ≤ Δ/(c√2) (Taflove & Hagness, Computational Electrodynamics, 3rd ed. 2005, ch. 4), at the
   // case schema's default 0.9 of it: the on-axis update needs < 0.951, so the reference's 0.99 would diverge here
   const dtS = (0.9 * CELL_M) / (C0 * Math.SQRT2);
@@ -82,6 +88,8 @@ export function buildBenchGrid(nx: number, nz: number): BenchGrid {
     cbEx,
     caEz,
     cbEz,
+    colEx,
+    colEz: colEx,
     chx: dtS / (MU0 * CELL_M),
     chz,
     rp,

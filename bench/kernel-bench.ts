@@ -43,6 +43,8 @@ interface SizeResult {
   /** Ours ÷ native base, medians taken in the same run (null when the native reference was skipped). */
   plainRatio: number | null;
   cpmlRatio: number | null;
+  profilesMcellsPerS: number;
+  profilesRatio: number | null;
   /** Every run's Mcells/s, for the record. */
   runs: { nativeBase: number[]; plain: number[]; cpml: number[] };
   /** Median CPU-time ÷ wall-time share of the runs: below 1, other work took the core for the rest. */
@@ -87,8 +89,12 @@ function benchSize(
   const { nx, nz } = size;
   const steps = Math.max(1, Math.round(CELL_UPDATES_PER_RUN / (nx * nz)));
   const cells = nx * nz * steps;
-  const grids: Record<KernelVariant, BenchGrid> = { plain: buildBenchGrid(nx, nz), cpml: buildBenchGrid(nx, nz) };
-  const runs = { nativeBase: [] as number[], plain: [] as number[], cpml: [] as number[] };
+  const grids: Record<KernelVariant, BenchGrid> = {
+    plain: buildBenchGrid(nx, nz),
+    cpml: buildBenchGrid(nx, nz),
+    profiles: buildBenchGrid(nx, nz, 'profiles'),
+  };
+  const runs = { nativeBase: [] as number[], plain: [] as number[], cpml: [] as number[], profiles: [] as number[] };
   const nativeShares: number[] = [];
   const ourShares: number[] = [];
   // interleave the three measurements so drifting load on the shared machine touches each alike
@@ -98,19 +104,20 @@ function benchSize(
       runs.nativeBase.push(run.mcellsPerS);
       if (run.cpuShare !== null) nativeShares.push(run.cpuShare);
     }
-    for (const v of ['plain', 'cpml'] as const) {
+    for (const v of ['plain', 'cpml', 'profiles'] as const) {
       const t = runKernel(grids[v], v, steps);
       runs[v].push(cells / t.wallS / 1e6);
       ourShares.push(t.cpuS / t.wallS);
     }
     log(`  ${size.name} ${nx}×${nz}, ${steps} steps: run ${r + 1}/${repeats}`);
   }
-  for (const v of ['plain', 'cpml'] as const) {
+  for (const v of ['plain', 'cpml', 'profiles'] as const) {
     if (!Number.isFinite(fieldEnergy(grids[v]))) throw new Error(`bench grid ${size.name} (${v}) diverged`);
   }
   const nativeBase = ref ? median(runs.nativeBase) : null;
   const plain = median(runs.plain);
   const cpml = median(runs.cpml);
+  const profiles = median(runs.profiles);
   return {
     grid: size.name,
     nx,
@@ -121,6 +128,8 @@ function benchSize(
     cpmlMcellsPerS: cpml,
     plainRatio: nativeBase ? plain / nativeBase : null,
     cpmlRatio: nativeBase ? cpml / nativeBase : null,
+    profilesMcellsPerS: profiles,
+    profilesRatio: nativeBase ? profiles / nativeBase : null,
     runs,
     cpuShare: { nativeBase: nativeShares.length ? median(nativeShares) : null, ours: median(ourShares) },
   };
@@ -165,7 +174,7 @@ function printTable(rep: BenchReport): void {
   out.push('build' in rep.native ? `native reference: ${rep.native.build}, base variant` : `native reference skipped: ${rep.native.skipped}`);
   out.push(`Mcells/s = nx·nz·steps / wall s / 1e6, median of ${rep.repeats}, one core; CPU share = CPU s / wall s (1: the core was ours)`);
   out.push('');
-  const header = ['grid', 'nx×nz', 'steps', 'C base', 'ours plain', 'plain/C', 'ours +CPML', 'CPML/C', 'CPU share C/ours'];
+  const header = ['grid', 'nx×nz', 'steps', 'C base', 'ours plain', 'plain/C', 'ours +CPML', 'CPML/C', 'ours profiles', 'profiles/C', 'CPU share C/ours'];
   const rows = rep.sizes.map((s) => [
     s.grid,
     `${s.nx}×${s.nz}`,
@@ -175,6 +184,8 @@ function printTable(rep: BenchReport): void {
     fmt(s.plainRatio, 2),
     fmt(s.cpmlMcellsPerS, 0),
     fmt(s.cpmlRatio, 2),
+    fmt(s.profilesMcellsPerS, 0),
+    fmt(s.profilesRatio, 2),
     `${fmt(s.cpuShare.nativeBase, 2)} / ${fmt(s.cpuShare.ours, 2)}`,
   ]);
   const widths = header.map((h, j) => Math.max(h.length, ...rows.map((r) => r[j].length)));

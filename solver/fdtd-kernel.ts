@@ -20,10 +20,17 @@ export interface YeeFields {
   ex: Float64Array;
   ez: Float64Array;
   hy: Float64Array;
+  /**
+   * Coefficients by column profile: the coefficient of cell (i, k) is at colEx[i] + k (colEz[i] + k for Ez).
+   * Columns of the same materials share one profile, so the update reads three field arrays per cell and the
+   * coefficients stay in cache; colEx[i] = i·S gives plain per-cell arrays.
+   */
   caEx: Float64Array;
   cbEx: Float64Array;
   caEz: Float64Array;
   cbEz: Float64Array;
+  colEx: Int32Array;
+  colEz: Int32Array;
   /** Δt/(μ0Δx). */
   chx: number;
   /** Δt/(μ0Δz_k) per row. */
@@ -224,12 +231,16 @@ export function applySurfaceImpedance(f: YeeFields, z: ImpedanceRow): void {
 
 /** E^{n+1} from Hy^{n+½}: lossy-medium update of Ex (rows 1…nz−1) and Ez (columns 0…nx−1, axis included). */
 export function updateE(f: YeeFields): void {
-  const { nx, nz, S, ex, ez, hy, caEx, cbEx, caEz, cbEz, rp, rm, axisFactor } = f;
+  const { nx, nz, S, ex, ez, hy, caEx, cbEx, caEz, cbEz, colEx, colEz, rp, rm, axisFactor } = f;
   // axis / symmetry column
-  for (let k = 0; k < nz; k++) ez[k] = caEz[k] * ez[k] + cbEz[k] * axisFactor * hy[k];
-  for (let k = 1; k < nz; k++) ex[k] = caEx[k] * ex[k] + cbEx[k] * (hy[k - 1] - hy[k]);
+  const z0 = colEz[0];
+  const x0 = colEx[0];
+  for (let k = 0; k < nz; k++) ez[k] = caEz[z0 + k] * ez[k] + cbEz[z0 + k] * axisFactor * hy[k];
+  for (let k = 1; k < nz; k++) ex[k] = caEx[x0 + k] * ex[k] + cbEx[x0 + k] * (hy[k - 1] - hy[k]);
   for (let i = 1; i < nx; i++) {
     const base = i * S;
+    const oEx = colEx[i] - base; // coefficient index = field index + offset
+    const oEz = colEz[i] - base;
     const end = base + nz;
     const p = rp[i];
     const m = rm[i];
@@ -239,46 +250,47 @@ export function updateE(f: YeeFields): void {
     for (; ik + 7 < end; ik += 8) {
       const h0 = hy[ik], h1 = hy[ik + 1], h2 = hy[ik + 2], h3 = hy[ik + 3];
       const h4 = hy[ik + 4], h5 = hy[ik + 5], h6 = hy[ik + 6], h7 = hy[ik + 7];
-      ex[ik] = caEx[ik] * ex[ik] + cbEx[ik] * (hBelow - h0);
-      ex[ik + 1] = caEx[ik + 1] * ex[ik + 1] + cbEx[ik + 1] * (h0 - h1);
-      ex[ik + 2] = caEx[ik + 2] * ex[ik + 2] + cbEx[ik + 2] * (h1 - h2);
-      ex[ik + 3] = caEx[ik + 3] * ex[ik + 3] + cbEx[ik + 3] * (h2 - h3);
-      ex[ik + 4] = caEx[ik + 4] * ex[ik + 4] + cbEx[ik + 4] * (h3 - h4);
-      ex[ik + 5] = caEx[ik + 5] * ex[ik + 5] + cbEx[ik + 5] * (h4 - h5);
-      ex[ik + 6] = caEx[ik + 6] * ex[ik + 6] + cbEx[ik + 6] * (h5 - h6);
-      ex[ik + 7] = caEx[ik + 7] * ex[ik + 7] + cbEx[ik + 7] * (h6 - h7);
+      ex[ik] = caEx[ik + oEx] * ex[ik] + cbEx[ik + oEx] * (hBelow - h0);
+      ex[ik + 1] = caEx[ik + oEx + 1] * ex[ik + 1] + cbEx[ik + oEx + 1] * (h0 - h1);
+      ex[ik + 2] = caEx[ik + oEx + 2] * ex[ik + 2] + cbEx[ik + oEx + 2] * (h1 - h2);
+      ex[ik + 3] = caEx[ik + oEx + 3] * ex[ik + 3] + cbEx[ik + oEx + 3] * (h2 - h3);
+      ex[ik + 4] = caEx[ik + oEx + 4] * ex[ik + 4] + cbEx[ik + oEx + 4] * (h3 - h4);
+      ex[ik + 5] = caEx[ik + oEx + 5] * ex[ik + 5] + cbEx[ik + oEx + 5] * (h4 - h5);
+      ex[ik + 6] = caEx[ik + oEx + 6] * ex[ik + 6] + cbEx[ik + oEx + 6] * (h5 - h6);
+      ex[ik + 7] = caEx[ik + oEx + 7] * ex[ik + 7] + cbEx[ik + oEx + 7] * (h6 - h7);
       hBelow = h7;
     }
     for (; ik < end; ik++) {
       const h = hy[ik];
-      ex[ik] = caEx[ik] * ex[ik] + cbEx[ik] * (hBelow - h);
+      ex[ik] = caEx[ik + oEx] * ex[ik] + cbEx[ik + oEx] * (hBelow - h);
       hBelow = h;
     }
     // Ez, rows 0…nz−1: (1/r)∂(rHy)/∂r from the H columns either side (im: the previous column)
     ik = base;
     let im = base - S;
     for (; ik + 7 < end; ik += 8, im += 8) {
-      ez[ik] = caEz[ik] * ez[ik] + cbEz[ik] * (p * hy[ik] - m * hy[im]);
-      ez[ik + 1] = caEz[ik + 1] * ez[ik + 1] + cbEz[ik + 1] * (p * hy[ik + 1] - m * hy[im + 1]);
-      ez[ik + 2] = caEz[ik + 2] * ez[ik + 2] + cbEz[ik + 2] * (p * hy[ik + 2] - m * hy[im + 2]);
-      ez[ik + 3] = caEz[ik + 3] * ez[ik + 3] + cbEz[ik + 3] * (p * hy[ik + 3] - m * hy[im + 3]);
-      ez[ik + 4] = caEz[ik + 4] * ez[ik + 4] + cbEz[ik + 4] * (p * hy[ik + 4] - m * hy[im + 4]);
-      ez[ik + 5] = caEz[ik + 5] * ez[ik + 5] + cbEz[ik + 5] * (p * hy[ik + 5] - m * hy[im + 5]);
-      ez[ik + 6] = caEz[ik + 6] * ez[ik + 6] + cbEz[ik + 6] * (p * hy[ik + 6] - m * hy[im + 6]);
-      ez[ik + 7] = caEz[ik + 7] * ez[ik + 7] + cbEz[ik + 7] * (p * hy[ik + 7] - m * hy[im + 7]);
+      ez[ik] = caEz[ik + oEz] * ez[ik] + cbEz[ik + oEz] * (p * hy[ik] - m * hy[im]);
+      ez[ik + 1] = caEz[ik + oEz + 1] * ez[ik + 1] + cbEz[ik + oEz + 1] * (p * hy[ik + 1] - m * hy[im + 1]);
+      ez[ik + 2] = caEz[ik + oEz + 2] * ez[ik + 2] + cbEz[ik + oEz + 2] * (p * hy[ik + 2] - m * hy[im + 2]);
+      ez[ik + 3] = caEz[ik + oEz + 3] * ez[ik + 3] + cbEz[ik + oEz + 3] * (p * hy[ik + 3] - m * hy[im + 3]);
+      ez[ik + 4] = caEz[ik + oEz + 4] * ez[ik + 4] + cbEz[ik + oEz + 4] * (p * hy[ik + 4] - m * hy[im + 4]);
+      ez[ik + 5] = caEz[ik + oEz + 5] * ez[ik + 5] + cbEz[ik + oEz + 5] * (p * hy[ik + 5] - m * hy[im + 5]);
+      ez[ik + 6] = caEz[ik + oEz + 6] * ez[ik + 6] + cbEz[ik + oEz + 6] * (p * hy[ik + 6] - m * hy[im + 6]);
+      ez[ik + 7] = caEz[ik + oEz + 7] * ez[ik + 7] + cbEz[ik + oEz + 7] * (p * hy[ik + 7] - m * hy[im + 7]);
     }
-    for (; ik < end; ik++, im++) ez[ik] = caEz[ik] * ez[ik] + cbEz[ik] * (p * hy[ik] - m * hy[im]);
+    for (; ik < end; ik++, im++) ez[ik] = caEz[ik + oEz] * ez[ik] + cbEz[ik + oEz] * (p * hy[ik] - m * hy[im]);
   }
 }
 
 /** CPML terms of the E update: Ez += cbEz·ψx (far side), Ex += cbEx·ψz (top). */
 export function updateECpml(f: YeeFields, p: CpmlState): void {
-  const { nz, S, ex, ez, hy, cbEx, cbEz, nx } = f;
+  const { nz, S, ex, ez, hy, cbEx, cbEz, colEx, colEz, nx } = f;
   const { ix0, px, kz0, pz, bEz, aEz, bEx, aEx, psiEz, psiEx } = p;
   for (let j = 0; j < px; j++) {
     const i = ix0 + j;
     if (i < 1) continue;
     const base = i * S;
+    const oEz = colEz[i] - base;
     const bj = bEz[j];
     const aj = aEz[j];
     const pbase = j * S;
@@ -303,20 +315,20 @@ export function updateECpml(f: YeeFields, p: CpmlState): void {
       psiEz[pk + 5] = p5;
       psiEz[pk + 6] = p6;
       psiEz[pk + 7] = p7;
-      ez[ik] += cbEz[ik] * p0;
-      ez[ik + 1] += cbEz[ik + 1] * p1;
-      ez[ik + 2] += cbEz[ik + 2] * p2;
-      ez[ik + 3] += cbEz[ik + 3] * p3;
-      ez[ik + 4] += cbEz[ik + 4] * p4;
-      ez[ik + 5] += cbEz[ik + 5] * p5;
-      ez[ik + 6] += cbEz[ik + 6] * p6;
-      ez[ik + 7] += cbEz[ik + 7] * p7;
+      ez[ik] += cbEz[ik + oEz] * p0;
+      ez[ik + 1] += cbEz[ik + oEz + 1] * p1;
+      ez[ik + 2] += cbEz[ik + oEz + 2] * p2;
+      ez[ik + 3] += cbEz[ik + oEz + 3] * p3;
+      ez[ik + 4] += cbEz[ik + oEz + 4] * p4;
+      ez[ik + 5] += cbEz[ik + oEz + 5] * p5;
+      ez[ik + 6] += cbEz[ik + oEz + 6] * p6;
+      ez[ik + 7] += cbEz[ik + oEz + 7] * p7;
     }
     for (; k < nz; k++) {
       const ik = base + k;
       const psi = bj * psiEz[pbase + k] + aj * (hy[ik] - hy[ik - S]);
       psiEz[pbase + k] = psi;
-      ez[ik] += cbEz[ik] * psi;
+      ez[ik] += cbEz[ik + oEz] * psi;
     }
   }
   if (pz === 0) return;
@@ -324,6 +336,7 @@ export function updateECpml(f: YeeFields, p: CpmlState): void {
   const j0 = kz0 < 1 ? 1 - kz0 : 0;
   for (let i = 0; i < nx; i++) {
     const base = i * S + kz0;
+    const oEx = colEx[i] - i * S;
     const pbase = i * pz;
     let j = j0;
     let hBelow = hy[base + j - 1];
@@ -348,14 +361,14 @@ export function updateECpml(f: YeeFields, p: CpmlState): void {
       psiEx[pj + 5] = p5;
       psiEx[pj + 6] = p6;
       psiEx[pj + 7] = p7;
-      ex[ik] += cbEx[ik] * p0;
-      ex[ik + 1] += cbEx[ik + 1] * p1;
-      ex[ik + 2] += cbEx[ik + 2] * p2;
-      ex[ik + 3] += cbEx[ik + 3] * p3;
-      ex[ik + 4] += cbEx[ik + 4] * p4;
-      ex[ik + 5] += cbEx[ik + 5] * p5;
-      ex[ik + 6] += cbEx[ik + 6] * p6;
-      ex[ik + 7] += cbEx[ik + 7] * p7;
+      ex[ik] += cbEx[ik + oEx] * p0;
+      ex[ik + 1] += cbEx[ik + oEx + 1] * p1;
+      ex[ik + 2] += cbEx[ik + oEx + 2] * p2;
+      ex[ik + 3] += cbEx[ik + oEx + 3] * p3;
+      ex[ik + 4] += cbEx[ik + oEx + 4] * p4;
+      ex[ik + 5] += cbEx[ik + oEx + 5] * p5;
+      ex[ik + 6] += cbEx[ik + oEx + 6] * p6;
+      ex[ik + 7] += cbEx[ik + oEx + 7] * p7;
       hBelow = h7;
     }
     for (; j < pz; j++) {
@@ -363,7 +376,7 @@ export function updateECpml(f: YeeFields, p: CpmlState): void {
       const h = hy[ik];
       const psi = bEx[j] * psiEx[pbase + j] + aEx[j] * (hBelow - h);
       psiEx[pbase + j] = psi;
-      ex[ik] += cbEx[ik] * psi;
+      ex[ik] += cbEx[ik + oEx] * psi;
       hBelow = h;
     }
   }

@@ -7,7 +7,7 @@
 //   Ez[i][k] at ( i·Δx,  z_k + Δz_k/2)     i ∈ [0,nx], k ∈ [0,nz)
 // Column i = 0 is the axis (axisymmetric) or the symmetry plane of the source (planar).
 // Ex row `groundRow` lies on the ground surface z = 0; rows below it are resolved ground cells.
-import type { Case, GroundSegment } from '../schemas/case.js';
+import type { Case } from '../schemas/case.js';
 import { C0, EPS0, MU0 } from './constants.js';
 import { groundImpedance } from './surface-impedance.js';
 
@@ -40,13 +40,7 @@ export interface GridPlan {
   memoryBytes: number;
 }
 
-const FIELD_AND_COEFFICIENT_ARRAYS = 7; // Ex, Ez, Hy + caEx, cbEx, caEz, cbEz
-
-function segmentAt(segments: readonly GroundSegment[], xM: number): GroundSegment {
-  let s = segments[0];
-  for (const seg of segments) if (seg.start_m <= xM) s = seg;
-  return s;
-}
+const FIELD_ARRAYS = 3; // Ex, Ez, Hy (coefficients are per column profile: see buildMaterials)
 
 /** Cell size, time step and cell counts of a case (cheap: no arrays of cells). */
 export function planGrid(c: Case): GridPlan {
@@ -100,7 +94,8 @@ export function planGrid(c: Case): GridPlan {
   const dtS = periodS / stepsPerPeriod;
   const cells = (nx + 1) * (nz + 1);
   const pmlCells = 2 * (npml * (nz + 1) + pmlTop * (nx + 1));
-  const memoryBytes = 8 * (FIELD_AND_COEFFICIENT_ARRAYS * cells + pmlCells) + 8 * 6 * (nx + nz);
+  const profiles = groundRows > 0 ? Math.max(1, (c.ground.segments ?? []).length) : 1;
+  const memoryBytes = 8 * (FIELD_ARRAYS * cells + pmlCells + 4 * profiles * (nz + 1)) + 8 * 6 * (nx + nz);
   return {
     dxM,
     dtS,
@@ -119,26 +114,36 @@ export function planGrid(c: Case): GridPlan {
 }
 
 export interface Materials {
+  /** Coefficient profiles (one column of S values each) and each column's offset into them (see YeeFields). */
   caEx: Float64Array;
   cbEx: Float64Array;
   caEz: Float64Array;
   cbEz: Float64Array;
+  colEx: Int32Array;
+  colEz: Int32Array;
+}
+
+/** Number of distinct column profiles: the materials of a column depend only on its ground segment, and only
+ *  when the ground is meshed. */
+function profileCount(c: Case, g: GridPlan): number {
+  return g.groundRow > 0 ? Math.max(1, (c.ground.segments ?? []).length) : 1;
 }
 
 /**
  * Lossy-medium coefficients, semi-implicit in the loss term so they are stable for any σ:
  * a = σΔt/(2ε), ca = (1 − a)/(1 + a), cb = (Δt/ε)/(1 + a) (Taflove & Hagness, ch. 3), with the spatial step folded
  * into cb (Ex: the dual cell height; Ez: Δx, and the axis factor of the on-axis update).
+ * Materials are horizontally layered within a ground segment, so one profile per segment serves every column.
  */
 export function buildMaterials(c: Case, g: GridPlan): Materials {
   const { nx, nz, dxM, dtS, dzM, zNodeM, groundRow } = g;
   const S = nz + 1;
-  const size = (nx + 1) * S;
-  const caEx = new Float64Array(size);
-  const cbEx = new Float64Array(size);
-  const caEz = new Float64Array(size);
-  const cbEz = new Float64Array(size);
   const segments = c.ground.segments ?? [];
+  const nProfiles = profileCount(c, g);
+  const caEx = new Float64Array(nProfiles * S);
+  const cbEx = new Float64Array(nProfiles * S);
+  const caEz = new Float64Array(nProfiles * S);
+  const cbEz = new Float64Array(nProfiles * S);
   const iono = c.upper_boundary.kind === 'exponential' ? c.upper_boundary : undefined;
 
   const airSigma = (zM: number): number => (iono ? ionosphereConductivity(zM, iono.h_prime_km, iono.beta_per_km) : 0);
@@ -147,26 +152,23 @@ export function buildMaterials(c: Case, g: GridPlan): Materials {
     return [(1 - a) / (1 + a), dtS / eps / (1 + a)];
   };
 
-  for (let i = 0; i <= nx; i++) {
-    const xEx = (i + 0.5) * dxM;
-    const xEz = i * dxM;
-    const segEx = segments.length ? segmentAt(segments, xEx) : undefined;
-    const segEz = segments.length ? segmentAt(segments, xEz) : undefined;
+  for (let prof = 0; prof < nProfiles; prof++) {
+    const seg = groundRow > 0 ? segments[prof] : undefined;
     for (let k = 0; k <= nz; k++) {
-      const ik = i * S + k;
+      const ik = prof * S + k;
       // Ex at z_k: dual cell from the middle of the row below to the middle of the row above
       const below = k > 0 ? dzM[k - 1] : dzM[0];
       const above = k < nz ? dzM[k] : dzM[nz - 1];
       const dual = (below + above) / 2;
       let epsEx = EPS0;
       let sigEx = airSigma(zNodeM[k]);
-      if (k < groundRow && segEx) {
-        epsEx = EPS0 * segEx.relative_permittivity;
-        sigEx = segEx.conductivity_s_per_m;
-      } else if (k === groundRow && groundRow > 0 && segEx) {
+      if (k < groundRow && seg) {
+        epsEx = EPS0 * seg.relative_permittivity;
+        sigEx = seg.conductivity_s_per_m;
+      } else if (k === groundRow && seg) {
         // interface node: the dual cell is half ground, half air (weighted by height)
-        epsEx = (EPS0 * segEx.relative_permittivity * below + EPS0 * above) / (below + above);
-        sigEx = (segEx.conductivity_s_per_m * below) / (below + above);
+        epsEx = (EPS0 * seg.relative_permittivity * below + EPS0 * above) / (below + above);
+        sigEx = (seg.conductivity_s_per_m * below) / (below + above);
       }
       const [ca1, cb1] = coeff(epsEx, sigEx);
       caEx[ik] = ca1;
@@ -175,9 +177,9 @@ export function buildMaterials(c: Case, g: GridPlan): Materials {
         const zMid = zNodeM[k] + dzM[k] / 2;
         let epsEz = EPS0;
         let sigEz = airSigma(zMid);
-        if (k < groundRow && segEz) {
-          epsEz = EPS0 * segEz.relative_permittivity;
-          sigEz = segEz.conductivity_s_per_m;
+        if (k < groundRow && seg) {
+          epsEz = EPS0 * seg.relative_permittivity;
+          sigEz = seg.conductivity_s_per_m;
         }
         const [ca2, cb2] = coeff(epsEz, sigEz);
         caEz[ik] = ca2;
@@ -185,7 +187,19 @@ export function buildMaterials(c: Case, g: GridPlan): Materials {
       }
     }
   }
-  return { caEx, cbEx, caEz, cbEz };
+  // each column's profile: the segment under Ex at (i+½)Δx and under Ez at i·Δx
+  const segmentIndex = (xM: number): number => {
+    let j = 0;
+    for (let s = 0; s < segments.length; s++) if (segments[s].start_m <= xM) j = s;
+    return j;
+  };
+  const colEx = new Int32Array(nx + 1);
+  const colEz = new Int32Array(nx + 1);
+  for (let i = 0; i <= nx; i++) {
+    colEx[i] = nProfiles > 1 ? segmentIndex((i + 0.5) * dxM) * S : 0;
+    colEz[i] = nProfiles > 1 ? segmentIndex(i * dxM) * S : 0;
+  }
+  return { caEx, cbEx, caEz, cbEz, colEx, colEz };
 }
 
 /** Axis factors of the Ez update: (1/r)∂(rH)/∂r ≈ (rp·H[i] − rm·H[i−1])/Δx; planar: 1 and 1. */

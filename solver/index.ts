@@ -177,7 +177,7 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   const dzs = g.dzM[ks];
   const areaM2 = c.geometry === 'axisymmetric' ? Math.PI * (g.dxM / 2) ** 2 : g.dxM;
   // ε∂Ez/∂t = curl − J: the update adds −cb′·J, cb′ = cbEz·Δx
-  const sourceCoef = -(mat.cbEz[ks] * g.dxM) / areaM2;
+  const sourceCoef = -(mat.cbEz[mat.colEz[0] + ks] * g.dxM) / areaM2;
   const omega = 2 * Math.PI * c.frequency_hz;
   const sch = schedule(c, g);
   const rampS = sch.rampSteps * g.dtS;

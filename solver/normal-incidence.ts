@@ -60,9 +60,10 @@ export function runNormalIncidence(c: Case): NormalIncidenceResult {
   const mat = buildMaterials(c, g);
   const { nz } = g;
   const S = nz + 1;
-  const col = (a: Float64Array): Float64Array => {
+  // column 0's coefficient profile, as a one-column grid (column 1 is the unused far edge)
+  const col = (a: Float64Array, offset: number): Float64Array => {
     const out = new Float64Array(2 * S);
-    out.set(a.subarray(0, S));
+    out.set(a.subarray(offset, offset + S));
     return out;
   };
   const chz = new Float64Array(nz);
@@ -74,10 +75,12 @@ export function runNormalIncidence(c: Case): NormalIncidenceResult {
     ex: new Float64Array(2 * S),
     ez: new Float64Array(2 * S),
     hy: new Float64Array(2 * S),
-    caEx: col(mat.caEx),
-    cbEx: col(mat.cbEx),
-    caEz: col(mat.caEz),
+    caEx: col(mat.caEx, mat.colEx[0]),
+    cbEx: col(mat.cbEx, mat.colEx[0]),
+    caEz: col(mat.caEz, mat.colEz[0]),
     cbEz: new Float64Array(2 * S), // no Ez: a plane wave uniform along x
+    colEx: new Int32Array([0, S]),
+    colEz: new Int32Array([0, S]),
     chx: 0,
     chz,
     rp: new Float64Array(2).fill(1),

@@ -116,6 +116,8 @@ function randomGrid(nx: number, nz: number, px: number, pz: number, seed: number
     cbEx: r(size, 0.3),
     caEz: r(size, 0.9),
     cbEz: r(size, 0.3),
+    colEx: Int32Array.from({ length: nx + 1 }, (_, i) => i * S),
+    colEz: Int32Array.from({ length: nx + 1 }, (_, i) => i * S),
     chx: 0.2 + rng.nextFloat() * 0.1,
     chz: r(nz, 0.2),
     rp: r(nx + 1, 1),
