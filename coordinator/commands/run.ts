@@ -2,6 +2,7 @@
 // commits each result as it arrives; with `--redis URL` it submits to the queue and collects what the workers
 // return instead. Either way a rerun recomputes nothing that is done, and the outputs are written at the end.
 import { availableParallelism } from 'node:os';
+import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { Option, type Command } from 'commander';
 import { LocalDispatch, type LocalDispatchSummary } from '../local-dispatch.js';
@@ -67,6 +68,11 @@ async function finish(run: SweepRun, outcome: RunOutcome, opts: RunCliOptions, s
     if (counts.failed > 0) {
       process.stderr.write(`error: ${counts.failed} job(s) failed; their reasons are in the error column of runs.parquet (and \`loamwave status\`)\n`);
       process.exitCode = EXIT_SOME_FAILED;
+    }
+    if (!opts.json) {
+      // one closing line on stderr (data stays on stdout, and only with --json): where to look next
+      const report = opts.report !== false ? `, report ${join(run.outDir, 'report.html')}` : '';
+      process.stderr.write(`${counts.done} of ${run.jobs.length} job(s) done; tables in ${run.outDir}${report}\n`);
     }
   }
   if (opts.json) {
