@@ -9,6 +9,7 @@ import { normalIncidenceReflection } from './references/fresnel.js';
 import { nortonFieldRatio, numericalDistance, nortonDelta } from './references/norton.js';
 import { oneLossyWallAttenuationNpPerM, parallelPlateGuideModeOverGround } from './references/parallel-plate-guide.js';
 import { surfaceResistanceOhm } from './references/fresnel.js';
+import { hankel2Order1 } from './references/bessel.js';
 import { yeePhaseVelocityRatio } from './references/yee-dispersion.js';
 
 export interface CheckOutcome {
@@ -124,6 +125,72 @@ export const dispersionCheck: ReferenceCheck = {
         6,
       );
     }),
+};
+
+const phaseOf = (z: { re: number; im: number }) => Math.atan2(z.im, z.re);
+/** p2 − p1 brought within π of `approx` (unwrapping a phase difference against its expected value). */
+function unwrapNear(d: number, approx: number): number {
+  let x = d;
+  while (x - approx > Math.PI) x -= 2 * Math.PI;
+  while (x - approx < -Math.PI) x += 2 * Math.PI;
+  return x;
+}
+
+/**
+ * Phase velocity on the 2-D planar grid along the ground and along the 45° diagonal, from Hy of a line source on
+ * a perfect plane: Hy ∝ cos φ·H1⁽²⁾(k̃ρ) exactly (the 2-D Green's function; Harrington, Time-Harmonic
+ * Electromagnetic Fields, 1961, §5-12, from memory), so k̃ is the root of arg H1(k̃ρ2) − arg H1(k̃ρ1) = measured.
+ */
+export const dispersion2dCheck: ReferenceCheck = {
+  id: 'yee-dispersion-2d',
+  run: () => {
+    const f = 1e5;
+    const lambdaM = C0 / f;
+    const k = (2 * Math.PI) / lambdaM;
+    const rho = [4 * lambdaM, 8 * lambdaM];
+    const out: CheckOutcome[] = [];
+    for (const cpw of [10, 20]) {
+      for (const angle of [0, Math.PI / 4]) {
+        const h = (r: number) => {
+          const res = solve(
+            parseCase({
+              geometry: 'planar',
+              frequency_hz: f,
+              ground: { model: 'pec' },
+              domain: { range_m: 9.5 * lambdaM, height_m: 9.5 * lambdaM },
+              grid: { cells_per_wavelength: cpw },
+              receivers: { ranges_m: [r * Math.cos(angle)], height_m: r * Math.sin(angle) },
+            }),
+          );
+          return { h: res.receivers[0].h, dt: res.grid.time_step_s, dx: res.grid.cell_size_m };
+        };
+        const a = h(rho[0]);
+        const b = h(rho[1]);
+        const measured = unwrapNear(phaseOf(b.h) - phaseOf(a.h), -k * (rho[1] - rho[0]));
+        const residual = (kk: number) => unwrapNear(phaseOf(hankel2Order1(kk * rho[1])) - phaseOf(hankel2Order1(kk * rho[0])), -kk * (rho[1] - rho[0])) - measured;
+        let kt = k;
+        for (let it = 0; it < 50; it++) {
+          const e = 1e-9 * k;
+          const step = residual(kt) / ((residual(kt + e) - residual(kt - e)) / (2 * e));
+          kt -= step;
+          if (Math.abs(step) < 1e-15 * k) break;
+        }
+        const expected = yeePhaseVelocityRatio({ frequencyHz: f, timeStepS: a.dt, cellSizeXM: a.dx, cellSizeZM: a.dx, angleRad: angle });
+        out.push(
+          outcome(
+            `phase velocity v_p/c on the 2-D grid ${angle === 0 ? 'along the ground' : 'along the diagonal'}, ${cpw} cells/λ`,
+            'Yee 2-D dispersion relation (Taflove & Hagness, Computational Electrodynamics, 3rd ed. 2005, eq. 4.12)',
+            expected,
+            k / kt,
+            1.5e-4,
+            '',
+            6,
+          ),
+        );
+      }
+    }
+    return out;
+  },
 };
 
 /** Exact field of a short vertical dipole on a perfect plane, at the plane (Balanis, Antenna Theory, 2005, eq. 4-26a):
@@ -380,6 +447,7 @@ export const guideCheck: ReferenceCheck = {
 export function referenceChecks(): ReferenceCheck[] {
   return [
     dispersionCheck,
+    dispersion2dCheck,
     reflectionCheck('impedance', 40, 2.5e-3),
     reflectionCheck('resolved', 20, 5e-3),
     absorbingLayerCheck,
