@@ -34,6 +34,13 @@ export interface GridPlan {
   dzM: Float64Array;
   /** Height of Ex row k ∈ [0,nz] above the ground surface, m. */
   zNodeM: Float64Array;
+  /**
+   * Factor s on ε, μ and σ of every cell (1 without dispersion correction). With `along_ground` the grid's medium
+   * speed v = c/s is chosen so that the Yee relation along an axis, sin(ωΔt/2)/(vΔt) = sin(k̃Δx/2)/Δx, gives
+   * k̃ = ω/c along range (Taflove & Hagness, ch. 4, the dispersion relation solved for the medium speed); the wave
+   * impedance √(μ/ε) is unchanged, so the ground's normalised impedance is too.
+   */
+  materialScale: number;
   /** Absorbing layer thickness at the far side (cells) and at the top (rows; 0 for a pec ceiling). */
   pmlX: number;
   pmlTop: number;
@@ -92,6 +99,12 @@ export function planGrid(c: Case): GridPlan {
   const periodS = 1 / c.frequency_hz;
   const stepsPerPeriod = Math.ceil(periodS / (c.grid.courant * dtLimit));
   const dtS = periodS / stepsPerPeriod;
+  // along-range phase velocity made exact at ω: v = Δx·sin(ωΔt/2)/(Δt·sin(k0Δx/2)), scale = c/v (< 1)
+  const omega = 2 * Math.PI * c.frequency_hz;
+  const materialScale =
+    c.grid.dispersion_correction === 'along_ground'
+      ? (C0 * dtS * Math.sin((omega / C0) * dxM / 2)) / (dxM * Math.sin((omega * dtS) / 2))
+      : 1;
   const cells = (nx + 1) * (nz + 1);
   const pmlCells = 2 * (npml * (nz + 1) + pmlTop * (nx + 1));
   const profiles = groundRows > 0 ? Math.max(1, (c.ground.segments ?? []).length) : 1;
@@ -104,6 +117,7 @@ export function planGrid(c: Case): GridPlan {
     nx,
     nz,
     cellsRange,
+    materialScale,
     groundRow: groundRows,
     dzM,
     zNodeM,
@@ -147,7 +161,9 @@ export function buildMaterials(c: Case, g: GridPlan): Materials {
   const iono = c.upper_boundary.kind === 'exponential' ? c.upper_boundary : undefined;
 
   const airSigma = (zM: number): number => (iono ? ionosphereConductivity(zM, iono.h_prime_km, iono.beta_per_km) : 0);
-  const coeff = (eps: number, sigma: number): [number, number] => {
+  const coeff = (epsPhysical: number, sigmaPhysical: number): [number, number] => {
+    const eps = epsPhysical * g.materialScale;
+    const sigma = sigmaPhysical * g.materialScale;
     const a = (sigma * dtS) / (2 * eps);
     return [(1 - a) / (1 + a), dtS / eps / (1 + a)];
   };

@@ -102,7 +102,7 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   const mat = buildMaterials(c, g);
   const { rp, rm, axisFactor } = radialFactors(c, nx);
   const chz = new Float64Array(nz);
-  for (let k = 0; k < nz; k++) chz[k] = g.dtS / (MU0 * g.dzM[k]);
+  for (let k = 0; k < nz; k++) chz[k] = g.dtS / (MU0 * g.materialScale * g.dzM[k]);
   const f: YeeFields = {
     nx,
     nz,
@@ -111,7 +111,7 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
     ez: new Float64Array(size),
     hy: new Float64Array(size),
     ...mat,
-    chx: g.dtS / (MU0 * g.dxM),
+    chx: g.dtS / (MU0 * g.materialScale * g.dxM),
     chz,
     rp,
     rm,

@@ -67,7 +67,7 @@ export function runNormalIncidence(c: Case): NormalIncidenceResult {
     return out;
   };
   const chz = new Float64Array(nz);
-  for (let k = 0; k < nz; k++) chz[k] = g.dtS / (MU0 * g.dzM[k]);
+  for (let k = 0; k < nz; k++) chz[k] = g.dtS / (MU0 * g.materialScale * g.dzM[k]);
   const f: YeeFields = {
     nx: 1,
     nz,
