@@ -2,7 +2,7 @@
 // a lossy slab, a good conductor below the surface-impedance row, every cell non-zero from the first step), so our
 // kernels and the reference do the same work per cell. Timing only: nothing here is a physical result.
 import { C0, EPS0, MU0 } from '../solver/constants.js';
-import { cpmlProfile } from '../solver/cpml.js';
+import { buildCpmlState } from '../solver/cpml.js';
 import {
   applySurfaceImpedance,
   updateE,
@@ -105,28 +105,7 @@ export function buildBenchGrid(nx: number, nz: number, layout: 'per-cell' | 'pro
   const px = Math.min(BENCH_PML_CELLS, nx - 1);
   const pz = Math.min(BENCH_PML_CELLS, nz - 1);
   const frequencyHz = C0 / (20 * CELL_M);
-  const hx = cpmlProfile(px, 0.5, px, CELL_M, dtS, frequencyHz);
-  const ex = cpmlProfile(px, 0, px, CELL_M, dtS, frequencyHz);
-  const hz = cpmlProfile(pz, 0.5, pz, CELL_M, dtS, frequencyHz);
-  const ez = cpmlProfile(pz, 0, pz, CELL_M, dtS, frequencyHz);
-  const pml: CpmlState = {
-    ix0: nx - px,
-    px,
-    kz0: nz - pz,
-    pz,
-    bHx: hx.b,
-    aHx: hx.a,
-    bEz: ex.b,
-    aEz: ex.a,
-    bHz: hz.b,
-    aHz: hz.a,
-    bEx: ez.b,
-    aEx: ez.a,
-    psiHx: new Float64Array(px * S),
-    psiEz: new Float64Array(px * S),
-    psiHz: new Float64Array(nx * pz),
-    psiEx: new Float64Array(nx * pz),
-  };
+  const pml = buildCpmlState(nx, nz, px, pz, CELL_M, dtS, frequencyHz);
 
   // good-conductor surface impedance Rs = √(ωμ0/(2σ)), Ls = Rs/ω (Jackson, Classical
   // Electrodynamics, 3rd ed. 1999, §8.1; section from memory)

@@ -2,6 +2,7 @@
 // Each absorbing cell keeps an auxiliary ψ per field: ψ ← b·ψ + a·(difference of the field across the cell),
 // and the update adds ψ to the plain curl. κ = 1 (the grid is many cells per wavelength; stretching buys little).
 import { EPS0, ETA0 } from './constants.js';
+import type { CpmlState } from './fdtd-kernel.js';
 
 export interface CpmlProfile {
   /** Coefficient b at depth position j (half-integer positions for H, integer for E; see `positions`). */
@@ -42,4 +43,42 @@ export function cpmlProfile(
     a[j] = sigma + alpha > 0 ? (sigma / (sigma + alpha)) * (bj - 1) : 0;
   }
   return { b, a };
+}
+
+/**
+ * The CPML state of an nx × nz grid with a `px`-cell layer at the far side and a `pz`-row layer at the top
+ * (either may be 0): H sits half a cell deeper into each layer than the E it is paired with.
+ */
+export function buildCpmlState(
+  nx: number,
+  nz: number,
+  px: number,
+  pz: number,
+  cellM: number,
+  dtS: number,
+  frequencyHz: number,
+): CpmlState {
+  const S = nz + 1;
+  const hx = cpmlProfile(px, 0.5, px, cellM, dtS, frequencyHz);
+  const ez = cpmlProfile(px, 0, px, cellM, dtS, frequencyHz);
+  const hz = cpmlProfile(pz, 0.5, pz, cellM, dtS, frequencyHz);
+  const ex = cpmlProfile(pz, 0, pz, cellM, dtS, frequencyHz);
+  return {
+    ix0: nx - px,
+    px,
+    kz0: nz - pz,
+    pz,
+    bHx: hx.b,
+    aHx: hx.a,
+    bEz: ez.b,
+    aEz: ez.a,
+    bHz: hz.b,
+    aHz: hz.a,
+    bEx: ex.b,
+    aEx: ex.a,
+    psiHx: new Float64Array(px * S),
+    psiEz: new Float64Array(px * S),
+    psiHz: new Float64Array(nx * pz),
+    psiEx: new Float64Array(nx * pz),
+  };
 }

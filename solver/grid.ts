@@ -218,6 +218,14 @@ export function buildMaterials(c: Case, g: GridPlan): Materials {
   return { caEx, cbEx, caEz, cbEz, colEx, colEz };
 }
 
+/** H-update coefficients Δt/(μΔx) and Δt/(μΔz_k) per row, μ = μ0·materialScale. */
+export function magneticCoefficients(g: GridPlan): { chx: number; chz: Float64Array } {
+  const mu = MU0 * g.materialScale;
+  const chz = new Float64Array(g.nz);
+  for (let k = 0; k < g.nz; k++) chz[k] = g.dtS / (mu * g.dzM[k]);
+  return { chx: g.dtS / (mu * g.dxM), chz };
+}
+
 /** Axis factors of the Ez update: (1/r)∂(rH)/∂r ≈ (rp·H[i] − rm·H[i−1])/Δx; planar: 1 and 1. */
 export function radialFactors(c: Case, nx: number): { rp: Float64Array; rm: Float64Array; axisFactor: number } {
   const rp = new Float64Array(nx + 1).fill(1);

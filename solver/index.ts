@@ -4,7 +4,7 @@ import type { Case } from '../schemas/case.js';
 import { UserError } from '../schemas/errors.js';
 import type { ReceiverResult, SolveResult } from '../schemas/result.js';
 import { C0, MU0 } from './constants.js';
-import { cpmlProfile } from './cpml.js';
+import { buildCpmlState } from './cpml.js';
 import { SolveCancelledError, SolverDivergedError } from './errors.js';
 import {
   applySurfaceImpedance,
@@ -12,11 +12,10 @@ import {
   updateECpml,
   updateH,
   updateHCpml,
-  type CpmlState,
   type ImpedanceRow,
   type YeeFields,
 } from './fdtd-kernel.js';
-import { buildMaterials, planGrid, radialFactors, type GridPlan } from './grid.js';
+import { buildMaterials, magneticCoefficients, planGrid, radialFactors, type GridPlan } from './grid.js';
 import { buildReceiverTaps, RunningDft, type Tap } from './receivers.js';
 import { sourceCurrent, targetMoment } from './source.js';
 import { groundImpedance } from './surface-impedance.js';
@@ -101,8 +100,6 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   const size = (nx + 1) * S;
   const mat = buildMaterials(c, g);
   const { rp, rm, axisFactor } = radialFactors(c, nx);
-  const chz = new Float64Array(nz);
-  for (let k = 0; k < nz; k++) chz[k] = g.dtS / (MU0 * g.materialScale * g.dzM[k]);
   const f: YeeFields = {
     nx,
     nz,
@@ -111,35 +108,13 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
     ez: new Float64Array(size),
     hy: new Float64Array(size),
     ...mat,
-    chx: g.dtS / (MU0 * g.materialScale * g.dxM),
-    chz,
+    ...magneticCoefficients(g),
     rp,
     rm,
     axisFactor,
   };
 
-  const hx = cpmlProfile(g.pmlX, 0.5, g.pmlX, g.dxM, g.dtS, c.frequency_hz);
-  const ezp = cpmlProfile(g.pmlX, 0, g.pmlX, g.dxM, g.dtS, c.frequency_hz);
-  const hz = cpmlProfile(g.pmlTop, 0.5, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
-  const exp = cpmlProfile(g.pmlTop, 0, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
-  const pml: CpmlState = {
-    ix0: nx - g.pmlX,
-    px: g.pmlX,
-    kz0: nz - g.pmlTop,
-    pz: g.pmlTop,
-    bHx: hx.b,
-    aHx: hx.a,
-    bEz: ezp.b,
-    aEz: ezp.a,
-    bHz: hz.b,
-    aHz: hz.a,
-    bEx: exp.b,
-    aEx: exp.a,
-    psiHx: new Float64Array(g.pmlX * S),
-    psiEz: new Float64Array(g.pmlX * S),
-    psiHz: new Float64Array(nx * g.pmlTop),
-    psiEx: new Float64Array(nx * g.pmlTop),
-  };
+  const pml = buildCpmlState(nx, nz, g.pmlX, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
 
   let zrow: ImpedanceRow | undefined;
   if (c.ground.model === 'impedance') {

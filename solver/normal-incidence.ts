@@ -2,10 +2,10 @@
 // layer), decomposed into incident and reflected waves from two probe rows. Used to check the ground models
 // against the exact Fresnel coefficient and to measure the absorbing layer's reflection.
 import type { Case } from '../schemas/case.js';
-import { C0, MU0 } from './constants.js';
-import { cpmlProfile } from './cpml.js';
-import { applySurfaceImpedance, updateE, updateECpml, updateH, updateHCpml, type CpmlState, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
-import { buildMaterials, planGrid } from './grid.js';
+import { C0 } from './constants.js';
+import { buildCpmlState } from './cpml.js';
+import { applySurfaceImpedance, updateE, updateECpml, updateH, updateHCpml, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
+import { buildMaterials, magneticCoefficients, planGrid } from './grid.js';
 import { RunningDft, type Tap } from './receivers.js';
 import { sourceCurrent } from './source.js';
 import { groundImpedance } from './surface-impedance.js';
@@ -66,8 +66,7 @@ export function runNormalIncidence(c: Case): NormalIncidenceResult {
     out.set(a.subarray(offset, offset + S));
     return out;
   };
-  const chz = new Float64Array(nz);
-  for (let k = 0; k < nz; k++) chz[k] = g.dtS / (MU0 * g.materialScale * g.dzM[k]);
+  const { chz } = magneticCoefficients(g);
   const f: YeeFields = {
     nx: 1,
     nz,
@@ -87,15 +86,7 @@ export function runNormalIncidence(c: Case): NormalIncidenceResult {
     rm: new Float64Array(2).fill(1),
     axisFactor: 0,
   };
-  const hz = cpmlProfile(g.pmlTop, 0.5, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
-  const exProf = cpmlProfile(g.pmlTop, 0, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
-  const empty = new Float64Array(0);
-  const pml: CpmlState = {
-    ix0: 1, px: 0, kz0: nz - g.pmlTop, pz: g.pmlTop,
-    bHx: empty, aHx: empty, bEz: empty, aEz: empty,
-    bHz: hz.b, aHz: hz.a, bEx: exProf.b, aEx: exProf.a,
-    psiHx: empty, psiEz: empty, psiHz: new Float64Array(g.pmlTop), psiEx: new Float64Array(g.pmlTop),
-  };
+  const pml = buildCpmlState(1, nz, 0, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
   let zrow: ImpedanceRow | undefined;
   if (c.ground.model === 'impedance') {
     const s = (c.ground.segments ?? [])[0];

@@ -248,9 +248,7 @@ export const phaseCheck: ReferenceCheck = {
       );
       const x = r.receivers[0];
       const exact = pecDipoleField(20000, 1, x.range_m).ez;
-      let d = ((Math.atan2(x.ez.im, x.ez.re) - Math.atan2(exact.im, exact.re)) * 180) / Math.PI;
-      while (d > 180) d -= 360;
-      while (d < -180) d += 360;
+      const d = (unwrapNear(phaseOf(x.ez) - phaseOf(exact), 0) * 180) / Math.PI;
       // plain grid: the lag the Yee relation predicts over the path, −360°·(d/λ)·(c/v_p − 1); corrected: none
       const vp = yeePhaseVelocityRatio({ frequencyHz: 20000, timeStepS: r.grid.time_step_s, cellSizeXM: r.grid.cell_size_m, cellSizeZM: r.grid.cell_size_m, angleRad: 0 });
       const predicted = correction === 'none' ? -360 * (x.range_m / (C0 / 20000)) * (1 / vp - 1) : 0;
