@@ -9,11 +9,11 @@ import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
 import { Redis } from 'ioredis';
-import { LocalDispatch } from '../coordinator/local-dispatch.js';
-import { collectOnce, followCollection, retireQueue } from '../coordinator/queue-collect.js';
-import { submitSweep } from '../coordinator/queue-submit.js';
-import { QueueHandles, queueTarget } from '../coordinator/queue-target.js';
-import { longestFirst, openSweepRun } from '../coordinator/run-setup.js';
+import { LocalDispatch } from '../coordinator/dispatch/local-pool.js';
+import { collectOnce, followCollection, retireQueue } from '../coordinator/queue/collect.js';
+import { submitSweep } from '../coordinator/queue/submit.js';
+import { QueueHandles, queueTarget } from '../coordinator/queue/target.js';
+import { longestFirst, openSweepRun } from '../coordinator/ledger/sweep-run.js';
 
 const JOBS = Number(process.env.BENCH_JOBS ?? 40);
 const url = process.env.REDIS_URL ?? 'redis://127.0.0.1:6379';

@@ -1,6 +1,6 @@
 // The seeded generator shared by sampling and bootstrap: reference vectors and determinism.
 import { describe, expect, it } from 'vitest';
-import { createPrng, shuffleInPlace, splitMix64, xoshiro128StarStarFromState } from '../coordinator/analysis/prng.js';
+import { createPrng, shuffleInPlace, splitMix64, xoshiro128StarStarFromState } from '../coordinator/sampling/prng.js';
 
 describe('xoshiro128** and its SplitMix64 seeding', () => {
   it.each([

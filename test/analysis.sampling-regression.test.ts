@@ -1,6 +1,6 @@
 // Latin hypercube sampling, standardised regression coefficients and elementary effects against known answers.
 import { describe, expect, it } from 'vitest';
-import { latinHypercube } from '../coordinator/analysis/latin-hypercube.js';
+import { latinHypercube } from '../coordinator/sampling/latin-hypercube.js';
 import { elementaryEffectRows, elementaryEffects } from '../coordinator/analysis/morris.js';
 import { regressionRows, standardisedRegression } from '../coordinator/analysis/regression.js';
 import { SensitivityRowSchema } from '../coordinator/analysis/sensitivity-table.js';

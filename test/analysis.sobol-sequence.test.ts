@@ -1,6 +1,6 @@
 // Sobol' points with Joe & Kuo (2008) direction numbers: the published first points and net properties.
 import { describe, expect, it } from 'vitest';
-import { SOBOL_MAX_DIMENSION, sobolPoints } from '../coordinator/analysis/sobol-sequence.js';
+import { SOBOL_MAX_DIMENSION, sobolPoints } from '../coordinator/sampling/sobol.js';
 
 describe('Sobol sequence', () => {
   it('when generating 2-D points then the first are 0, 0.5/0.5, 0.75/0.25, 0.25/0.75, 0.375/0.375 …', () => {

@@ -4,7 +4,7 @@
 // 1966; Taflove & Hagness, Computational Electrodynamics, 3rd ed. 2005, ch. 3) with the CPML auxiliary fields of
 // Roden & Gedney (Microwave Opt. Technol. Lett. 27(5), 2000), in the kernel module's own index layout.
 import { describe, expect, it } from 'vitest';
-import { createPrng, type Prng } from '../coordinator/analysis/prng.js';
+import { createPrng, type Prng } from '../coordinator/sampling/prng.js';
 import {
   applySurfaceImpedance,
   updateE,

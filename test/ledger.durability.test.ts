@@ -5,10 +5,10 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import type { JobResult } from '../schemas/result.js';
-import { NonFiniteNumberError, toExactJson } from '../coordinator/exact-json.js';
-import { Ledger, UnknownJobError } from '../coordinator/ledger.js';
-import { expandSweep, type ExpandedJob } from '../coordinator/sweep-expand.js';
-import { parseSweep } from '../coordinator/sweep-file.js';
+import { NonFiniteNumberError, toExactJson } from '../coordinator/ledger/exact-json.js';
+import { Ledger, UnknownJobError } from '../coordinator/ledger/ledger.js';
+import { expandSweep, type ExpandedJob } from '../coordinator/sweep/expand.js';
+import { parseSweep } from '../coordinator/sweep/file.js';
 
 const dirs: string[] = [];
 const ledgers: Ledger[] = [];

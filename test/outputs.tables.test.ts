@@ -9,10 +9,10 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { JobResult } from '../schemas/result.js';
 import { solve } from '../solver/index.js';
 import { convergenceTable } from '../coordinator/analysis/grid-convergence.js';
-import { Ledger } from '../coordinator/ledger.js';
-import { writeOutputs } from '../coordinator/outputs.js';
-import { expandSweep, type ExpandedJob } from '../coordinator/sweep-expand.js';
-import { parseSweep, parseSweepText } from '../coordinator/sweep-file.js';
+import { Ledger } from '../coordinator/ledger/ledger.js';
+import { writeOutputs } from '../coordinator/outputs/tables.js';
+import { expandSweep, type ExpandedJob } from '../coordinator/sweep/expand.js';
+import { parseSweep, parseSweepText } from '../coordinator/sweep/file.js';
 
 const SIGMA = 'ground.segments[0].conductivity_s_per_m';
 const SWEEP_TEXT = `# a small harbour-beacon study

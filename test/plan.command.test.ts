@@ -7,8 +7,8 @@ import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest
 import { parseCase } from '../schemas/case.js';
 import { estimateCost } from '../solver/index.js';
 import { main } from '../coordinator/cli.js';
-import { kernelSpeed } from '../coordinator/kernel-speed.js';
-import { longestFirstMakespan } from '../coordinator/sweep-plan.js';
+import { kernelSpeed } from '../coordinator/sweep/kernel-speed.js';
+import { longestFirstMakespan } from '../coordinator/sweep/plan.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'loamwave-plan-'));
 const cache = join(dir, 'cache');

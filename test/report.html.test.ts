@@ -5,9 +5,9 @@ import { resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { convergenceTable, type ConvergenceRun } from '../coordinator/analysis/grid-convergence.js';
 import { saltelliDesign, saltelliIndices, saltelliRows } from '../coordinator/analysis/saltelli.js';
-import { ReportDataSchema, type FieldSeries, type ReportData } from '../coordinator/report/report-data.js';
-import { buildReportHtml, escapeHtml } from '../coordinator/report/report-html.js';
-import { fieldPlots, MAX_FIELD_LINES, renderSvg, residualPhaseDeg } from '../coordinator/report/report-plots.js';
+import { ReportDataSchema, type FieldSeries, type ReportData } from '../coordinator/report/data.js';
+import { buildReportHtml, escapeHtml } from '../coordinator/report/html.js';
+import { fieldPlots, MAX_FIELD_LINES, renderSvg, residualPhaseDeg } from '../coordinator/report/plots.js';
 import { C0 } from '../solver/constants.js';
 import { checkReportPage, launchChromium, type Browser } from './report.page-check.js';
 

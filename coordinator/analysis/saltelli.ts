@@ -2,8 +2,8 @@
 // intervals. Design and first-order estimator: Saltelli et al., "Variance based sensitivity analysis of model
 // output", Comput. Phys. Commun. 181(2), 2010; total-order estimator: Jansen, Comput. Phys. Commun. 117, 1999.
 import { z } from 'zod';
-import { createPrng } from './prng.js';
-import { SOBOL_MAX_DIMENSION, sobolPoints } from './sobol-sequence.js';
+import { createPrng } from '../sampling/prng.js';
+import { SOBOL_MAX_DIMENSION, sobolPoints } from '../sampling/sobol.js';
 import type { SensitivityRow } from './sensitivity-table.js';
 
 /**

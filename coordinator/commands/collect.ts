@@ -2,10 +2,10 @@
 // (each result committed before it leaves Redis; failures recorded with their reason); with --follow, keep
 // collecting until the sweep is complete. When it is, the outputs are written.
 import type { Command } from 'commander';
-import { addQueueOptions, type QueueCliOptions } from '../queue-options.js';
-import { queueSession, withQueue } from '../queue-session.js';
-import { writeSweepOutputs } from '../run-setup.js';
-import { EXIT_STOPPED } from '../stop-signals.js';
+import { addQueueOptions, type QueueCliOptions } from './options.js';
+import { queueSession, withQueue } from '../queue/session.js';
+import { writeSweepOutputs } from '../ledger/sweep-run.js';
+import { EXIT_STOPPED } from '../dispatch/stop-signals.js';
 
 interface CollectCliOptions extends QueueCliOptions {
   out?: string;

@@ -7,10 +7,10 @@ import type { Command } from 'commander';
 import { UserError } from '../../schemas/errors.js';
 import { sweepJsonSchema } from '../../schemas/sweep.js';
 import { defaultMemoryCapBytes } from '../../worker/run-case.js';
-import { kernelSpeed } from '../kernel-speed.js';
-import { expandSweepDetailed } from '../sweep-expand.js';
-import { loadSweep } from '../sweep-file.js';
-import { describeJob, planSweep, type SweepPlan } from '../sweep-plan.js';
+import { kernelSpeed } from '../sweep/kernel-speed.js';
+import { expandSweepDetailed } from '../sweep/expand.js';
+import { loadSweep } from '../sweep/file.js';
+import { describeJob, planSweep, type SweepPlan } from '../sweep/plan.js';
 import { addSchema } from './schema.js';
 
 const GIB = 1024 ** 3;

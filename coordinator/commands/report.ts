@@ -5,9 +5,9 @@ import { join } from 'node:path';
 import type { Command } from 'commander';
 import { UserError } from '../../schemas/errors.js';
 import { SOLVER_VERSION } from '../../solver/version.js';
-import { assembleReportData } from '../report/report-assembly.js';
-import { readReportFolder } from '../report/report-folder.js';
-import { buildReportHtml } from '../report/report-html.js';
+import { assembleReportData } from '../report/assembly.js';
+import { readReportFolder } from '../analysis/read-tables.js';
+import { buildReportHtml } from '../report/html.js';
 
 export interface ReportCommandOptions {
   /** Convergence tolerance on field strength, dB. */

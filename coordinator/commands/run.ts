@@ -5,13 +5,13 @@ import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { Option, type Command } from 'commander';
-import { LocalDispatch, type LocalDispatchSummary } from '../local-dispatch.js';
-import { ProgressBar } from '../progress-bar.js';
-import { addQueueOptions, integerOption, type QueueCliOptions } from '../queue-options.js';
-import { queueSession, withQueue } from '../queue-session.js';
-import { longestFirst, openSweepRun, writeSweepOutputs, type SweepRun } from '../run-setup.js';
-import { EXIT_STOPPED, onStopSignals } from '../stop-signals.js';
-import { SweepProgress } from '../sweep-progress.js';
+import { LocalDispatch, type LocalDispatchSummary } from '../dispatch/local-pool.js';
+import { ProgressBar } from '../dispatch/progress-bar.js';
+import { addQueueOptions, integerOption, type QueueCliOptions } from './options.js';
+import { queueSession, withQueue } from '../queue/session.js';
+import { longestFirst, openSweepRun, writeSweepOutputs, type SweepRun } from '../ledger/sweep-run.js';
+import { EXIT_STOPPED, onStopSignals } from '../dispatch/stop-signals.js';
+import { SweepProgress } from '../dispatch/progress.js';
 
 interface RunCliOptions extends QueueCliOptions {
   out?: string;

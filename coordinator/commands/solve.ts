@@ -5,7 +5,7 @@ import { parseCase } from '../../schemas/case.js';
 import { UserError } from '../../schemas/errors.js';
 import type { JobResult } from '../../schemas/result.js';
 import { solve } from '../../solver/index.js';
-import { jobIdFor } from '../job-id.js';
+import { jobIdFor } from '../sweep/job-id.js';
 
 export function readJsonFile(path: string): unknown {
   let text: string;

@@ -5,11 +5,11 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Command } from 'commander';
 import { UserError } from '../../schemas/errors.js';
-import { Ledger, LEDGER_FILE, type LedgerJob } from '../ledger.js';
-import { formatDuration } from '../progress-bar.js';
-import { addQueueOptions, type QueueCliOptions } from '../queue-options.js';
-import { QueueHandles, queueTarget } from '../queue-target.js';
-import { openExistingSweep } from '../run-setup.js';
+import { Ledger, LEDGER_FILE, type LedgerJob } from '../ledger/ledger.js';
+import { formatDuration } from '../dispatch/progress-bar.js';
+import { addQueueOptions, type QueueCliOptions } from './options.js';
+import { QueueHandles, queueTarget } from '../queue/target.js';
+import { openExistingSweep } from '../ledger/sweep-run.js';
 
 interface StatusCliOptions extends QueueCliOptions {
   out?: string;

@@ -2,9 +2,9 @@
 // and return; workers anywhere solve them and `loamwave collect` brings the results home. Idempotent: jobs done
 // in the ledger or already queued are not added again.
 import type { Command } from 'commander';
-import { addQueueOptions, type QueueCliOptions } from '../queue-options.js';
-import { submitSweep } from '../queue-submit.js';
-import { withQueue } from '../queue-session.js';
+import { addQueueOptions, type QueueCliOptions } from './options.js';
+import { submitSweep } from '../queue/submit.js';
+import { withQueue } from '../queue/session.js';
 
 interface SubmitCliOptions extends QueueCliOptions {
   out?: string;

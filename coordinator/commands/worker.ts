@@ -7,7 +7,7 @@ import { QueueWorker } from '../../worker/queue-worker.js';
 import { redactedUrl, redisOptions, redisServerWarnings } from '../../worker/redis-connection.js';
 import { defaultMemoryCapBytes } from '../../worker/run-case.js';
 import { Redis } from 'ioredis';
-import { addQueueOptions, integerOption, REDIS_URL_ENV, type QueueCliOptions } from '../queue-options.js';
+import { addQueueOptions, integerOption, REDIS_URL_ENV, type QueueCliOptions } from './options.js';
 import { queueNameFor } from '../../worker/queue-payload.js';
 
 interface WorkerCliOptions extends QueueCliOptions {

@@ -2,9 +2,9 @@
 // before the job is removed from Redis, and each failed job's reason is recorded before it is removed, so a
 // crash anywhere loses nothing (a result committed twice is kept once). The coordinator is the ledger's only writer.
 import type { Job } from 'bullmq';
-import { JobResultSchema } from '../schemas/result.js';
-import type { Ledger } from './ledger.js';
-import type { QueueHandles } from './queue-target.js';
+import { JobResultSchema } from '../../schemas/result.js';
+import type { Ledger } from '../ledger/ledger.js';
+import type { QueueHandles } from './target.js';
 
 /** Jobs fetched per round trip. */
 const PAGE = 200;

@@ -3,9 +3,9 @@
 // warns once about server settings that can lose jobs.
 import { Queue, QueueEvents } from 'bullmq';
 import { Redis } from 'ioredis';
-import { UserError } from '../schemas/errors.js';
-import { queueNameFor, registryKey } from '../worker/queue-payload.js';
-import { redactedUrl, redisOptions, redisServerWarnings, type RedisSettings } from '../worker/redis-connection.js';
+import { UserError } from '../../schemas/errors.js';
+import { queueNameFor, registryKey } from '../../worker/queue-payload.js';
+import { redactedUrl, redisOptions, redisServerWarnings, type RedisSettings } from '../../worker/redis-connection.js';
 
 export interface QueueTarget {
   readonly url: string;

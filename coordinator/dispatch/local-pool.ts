@@ -1,10 +1,10 @@
 // The embedded default's dispatcher: feeds the ledger's pending jobs (longest first) to the local solver pool, at
 // most one per thread, and commits each result to the ledger the moment it arrives. A stop request either lets
 // running jobs finish (no new ones start) or abandons them; either way the ledger stays consistent for a resume.
-import type { JobResult } from '../schemas/result.js';
-import { CaseFailure } from '../worker/case-failure.js';
-import { SolverPool } from '../worker/thread-pool.js';
-import type { Ledger, LedgerJob } from './ledger.js';
+import type { JobResult } from '../../schemas/result.js';
+import { CaseFailure } from '../../worker/case-failure.js';
+import { SolverPool } from '../../worker/thread-pool.js';
+import type { Ledger, LedgerJob } from '../ledger/ledger.js';
 
 export interface LocalDispatchOptions {
   readonly ledger: Ledger;

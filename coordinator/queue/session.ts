@@ -1,15 +1,15 @@
 // The coordinator's side of a queued sweep, shared by `run --redis` and `collect --follow`: connect, submit when
 // asked, follow the collection with the progress bar (resubmitting if Redis lost the queue), and on Ctrl-C stop
 // following while the jobs stay queued for the workers. Everything here writes the ledger; workers never do.
-import type { Ledger } from './ledger.js';
-import { ProgressBar } from './progress-bar.js';
-import { activeProgress, collectOnce, followCollection, retireQueue, type CollectSummary } from './queue-collect.js';
-import { submitSweep, type SubmitSummary } from './queue-submit.js';
-import { QueueHandles, queueTarget } from './queue-target.js';
-import type { QueueCliOptions } from './queue-options.js';
-import { openLedgerFor, prepareSweep, type SweepRun } from './run-setup.js';
-import { onStopSignals } from './stop-signals.js';
-import { SweepProgress } from './sweep-progress.js';
+import type { Ledger } from '../ledger/ledger.js';
+import { ProgressBar } from '../dispatch/progress-bar.js';
+import { activeProgress, collectOnce, followCollection, retireQueue, type CollectSummary } from './collect.js';
+import { submitSweep, type SubmitSummary } from './submit.js';
+import { QueueHandles, queueTarget } from './target.js';
+import type { QueueCliOptions } from '../commands/options.js';
+import { openLedgerFor, prepareSweep, type SweepRun } from '../ledger/sweep-run.js';
+import { onStopSignals } from '../dispatch/stop-signals.js';
+import { SweepProgress } from '../dispatch/progress.js';
 
 export interface QueueSessionResult {
   readonly submitted?: SubmitSummary;

@@ -1,8 +1,8 @@
 // What a sweep will cost before anything runs: per-job cells, steps, memory and core-hours (from the solver's
 // own estimate and a measured kernel speed), the wall time on N workers with longest-first list scheduling,
 // and the largest job against a memory cap. Pure: the speed and the cap are passed in.
-import { estimateCost } from '../solver/index.js';
-import { describeParams, type Expansion } from './sweep-expand.js';
+import { estimateCost } from '../../solver/index.js';
+import { describeParams, type Expansion } from './expand.js';
 
 export interface JobPlan {
   index: number;

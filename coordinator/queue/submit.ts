@@ -2,9 +2,9 @@
 // already in Redis in any state, is not added again. Priorities come from the estimated cost so that the longest
 // jobs start first; retries with exponential backoff cover crashes, never deterministic failures.
 import type { JobsOptions } from 'bullmq';
-import type { QueueJobData } from '../worker/queue-payload.js';
-import type { Ledger, LedgerJob } from './ledger.js';
-import type { QueueHandles } from './queue-target.js';
+import type { QueueJobData } from '../../worker/queue-payload.js';
+import type { Ledger, LedgerJob } from '../ledger/ledger.js';
+import type { QueueHandles } from './target.js';
 
 /** Highest priority number BullMQ accepts (2^21 − 1; BullMQ docs, "Prioritized": 1 is the highest priority). */
 export const PRIORITY_LIMIT = 2 ** 21 - 1;

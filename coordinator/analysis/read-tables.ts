@@ -6,11 +6,11 @@ import { join } from 'node:path';
 import { DuckDBInstance, type DuckDBConnection } from '@duckdb/node-api';
 import { z } from 'zod';
 import { UserError } from '../../schemas/errors.js';
-import { ConvergenceRowSchema, type ConvergenceRow } from '../analysis/grid-convergence.js';
-import { SensitivityRowSchema, type SensitivityRow } from '../analysis/sensitivity-table.js';
-import { loadSweep } from '../sweep-file.js';
-import type { Cell } from './report-data.js';
-import type { FieldRecord, FolderTables, RunRecord } from './report-assembly.js';
+import { ConvergenceRowSchema, type ConvergenceRow } from './grid-convergence.js';
+import { SensitivityRowSchema, type SensitivityRow } from './sensitivity-table.js';
+import { loadSweep } from '../sweep/file.js';
+import type { Cell } from '../report/data.js';
+import type { FieldRecord, FolderTables, RunRecord } from '../report/assembly.js';
 
 const CODE = 'loamwave.report.input';
 

@@ -5,12 +5,12 @@
 // from the ledger, so memory is bounded by a row group, not by the sweep.
 import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import type { Sweep } from '../schemas/sweep.js';
-import type { JobResult } from '../schemas/result.js';
-import type { Ledger, LedgerJob } from './ledger.js';
+import type { Sweep } from '../../schemas/sweep.js';
+import type { JobResult } from '../../schemas/result.js';
+import type { Ledger, LedgerJob } from '../ledger/ledger.js';
 import { ANALYSIS_FILES, writeAnalysisTables } from './analysis-tables.js';
-import { columnNameFor, ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet-table.js';
-import { expandSweep, type ExpandedJob } from './sweep-expand.js';
+import { columnNameFor, ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
+import { expandSweep, type ExpandedJob } from '../sweep/expand.js';
 
 export interface OutputOptions {
   /** The sweep's jobs if already expanded (saves expanding again). */

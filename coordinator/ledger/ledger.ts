@@ -4,11 +4,11 @@
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
-import type { Case } from '../schemas/case.js';
-import { UserError } from '../schemas/errors.js';
-import type { JobResult } from '../schemas/result.js';
+import type { Case } from '../../schemas/case.js';
+import { UserError } from '../../schemas/errors.js';
+import type { JobResult } from '../../schemas/result.js';
 import { toExactJson } from './exact-json.js';
-import type { ExpandedJob } from './sweep-expand.js';
+import type { ExpandedJob } from '../sweep/expand.js';
 
 export const JOB_STATUSES = ['pending', 'queued', 'running', 'done', 'failed'] as const;
 export type JobStatus = (typeof JOB_STATUSES)[number];

@@ -2,8 +2,8 @@
 // else fetched) built from a ReportData structure. Pure apart from rendering the plots: data in, a string out.
 import { describeGroup, type ConvergenceRow } from '../analysis/grid-convergence.js';
 import type { SensitivityRow } from '../analysis/sensitivity-table.js';
-import { ReportDataSchema, type Cell, type ReportData, type ReportDataInput, type ReportWarning } from './report-data.js';
-import { convergencePlots, fieldPlots, renderSvg, sensitivityPlots, type Plot } from './report-plots.js';
+import { ReportDataSchema, type Cell, type ReportData, type ReportDataInput, type ReportWarning } from './data.js';
+import { convergencePlots, fieldPlots, renderSvg, sensitivityPlots, type Plot } from './plots.js';
 
 /** Most rows shown in the runs, convergence and sensitivity tables and in the warnings list. */
 export const MAX_TABLE_ROWS = 200;

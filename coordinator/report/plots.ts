@@ -5,7 +5,7 @@ import { compile, type TopLevelSpec } from 'vega-lite';
 import { C0 } from '../../solver/constants.js';
 import type { ConvergenceRow } from '../analysis/grid-convergence.js';
 import type { SensitivityRow } from '../analysis/sensitivity-table.js';
-import type { FieldSeries, VariedInput } from './report-data.js';
+import type { FieldSeries, VariedInput } from './data.js';
 
 /** One plot as the report embeds it. */
 export interface Plot {

@@ -1,7 +1,7 @@
 // Command-line options shared by the sweep commands: the Redis connection and key prefix, and whole-number
 // options with their bounds. One definition each, so `run`, `submit`, `worker`, `collect` and `status` agree.
 import { InvalidArgumentError, Option, type Command } from 'commander';
-import { DEFAULT_QUEUE_PREFIX } from '../worker/queue-payload.js';
+import { DEFAULT_QUEUE_PREFIX } from '../../worker/queue-payload.js';
 
 /** Environment variable a worker reads its Redis URL from when `--redis` is not given (handy in job arrays). */
 export const REDIS_URL_ENV = 'LOAMWAVE_REDIS_URL';

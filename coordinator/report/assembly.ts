@@ -1,15 +1,15 @@
 // Turns the tables of an output folder (plain rows, as read) into the report's data: the convergence and
 // sensitivity tables when the folder has none, the field series, the warnings and the summary. Pure: rows in,
-// ReportData out; the folder reading lives in report-folder.ts.
+// ReportData out; the folder reading lives in analysis/read-tables.ts.
 import { convergenceTable, describeGroup, ResolutionAxisSchema, type ConvergenceRow, type ConvergenceRun } from '../analysis/grid-convergence.js';
 import { elementaryEffectRows, elementaryEffects, type EffectScale } from '../analysis/morris.js';
 import { regressionRows, standardisedRegression } from '../analysis/regression.js';
 import { saltelliIndices, saltelliRows } from '../analysis/saltelli.js';
 import type { SensitivityRow } from '../analysis/sensitivity-table.js';
 import { generatorKind, type Sweep } from '../../schemas/sweep.js';
-import { columnNameFor } from '../parquet-table.js';
-import type { Cell, FieldSeries, ReportData, ReportWarning, VariedInput } from './report-data.js';
-import { residualPhaseDeg } from './report-plots.js';
+import { columnNameFor } from '../outputs/parquet.js';
+import type { Cell, FieldSeries, ReportData, ReportWarning, VariedInput } from './data.js';
+import { residualPhaseDeg } from './plots.js';
 
 /** One row of runs.parquet as read (BIGINTs already made numbers). */
 export type RunRecord = Readonly<Record<string, Cell>>;

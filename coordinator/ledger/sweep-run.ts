@@ -2,13 +2,13 @@
 // file is written), open the ledger in the output folder and add the jobs it does not hold yet, and estimate
 // each job's cost (for longest-first order, queue priorities and a cost-weighted ETA); and at the end, the outputs.
 import { basename, join, resolve } from 'node:path';
-import type { Sweep } from '../schemas/sweep.js';
-import { estimateCost } from '../solver/index.js';
-import { writeReport } from './commands/report.js';
+import type { Sweep } from '../../schemas/sweep.js';
+import { estimateCost } from '../../solver/index.js';
+import { writeReport } from '../commands/report.js';
 import { Ledger, type LedgerJob } from './ledger.js';
-import { writeOutputs } from './outputs.js';
-import { loadSweep } from './sweep-file.js';
-import { expandSweep, type ExpandedJob } from './sweep-expand.js';
+import { writeOutputs } from '../outputs/tables.js';
+import { loadSweep } from '../sweep/file.js';
+import { expandSweep, type ExpandedJob } from '../sweep/expand.js';
 
 export interface SweepRun {
   readonly sweep: Sweep;

@@ -1,9 +1,9 @@
 // Unit-cube rows of the sampled sweep designs, each with its role in the design: a thin adapter over the analysis
 // room's Latin hypercube and Saltelli samplers, so that the expansion and the sensitivity estimators agree on
 // one layout. Pure and deterministic for a given seed.
-import { latinHypercube } from './analysis/latin-hypercube.js';
-import { SOBOL_MAX_DIMENSION } from './analysis/sobol-sequence.js';
-import { saltelliDesign } from './analysis/saltelli.js';
+import { latinHypercube } from './latin-hypercube.js';
+import { SOBOL_MAX_DIMENSION } from './sobol.js';
+import { saltelliDesign } from '../analysis/saltelli.js';
 
 export interface UnitRow {
   /** Coordinates in [0, 1)^d, one per vary path in the order written. */

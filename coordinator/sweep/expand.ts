@@ -1,7 +1,7 @@
 // Expands a parsed sweep into jobs, in a deterministic order: full factorial (nested like loops, the first vary
 // path outermost), Latin hypercube, or a Saltelli design. Every case is validated before anything is queued, and
 // cases that come out identical collapse into one job (same job id).
-import { parseCase, type Case } from '../schemas/case.js';
+import { parseCase, type Case } from '../../schemas/case.js';
 import {
   generatorKind,
   parseVaryPath,
@@ -9,9 +9,9 @@ import {
   type PathStep,
   type Sweep,
   withValueAt,
-} from '../schemas/sweep.js';
+} from '../../schemas/sweep.js';
 import { jobIdFor } from './job-id.js';
-import { latinHypercubeUnit, saltelliUnit } from './sweep-sampling.js';
+import { latinHypercubeUnit, saltelliUnit } from '../sampling/designs.js';
 
 /** Where a job sits in a sampled design: role `A`, `B`, `AB_<i>` (Saltelli) or `LHS`, and its sample index. */
 export interface DesignPlace {

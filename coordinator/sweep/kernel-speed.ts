@@ -6,9 +6,9 @@ import { cpus, homedir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { z } from 'zod';
-import { parseCase } from '../schemas/case.js';
-import { solve } from '../solver/index.js';
-import { SOLVER_VERSION } from '../solver/version.js';
+import { parseCase } from '../../schemas/case.js';
+import { solve } from '../../solver/index.js';
+import { SOLVER_VERSION } from '../../solver/version.js';
 
 export const KernelSpeedSchema = z.strictObject({
   solver_version: z.string(),

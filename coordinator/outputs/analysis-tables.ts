@@ -4,13 +4,13 @@
 import { renameSync } from 'node:fs';
 import { join } from 'node:path';
 import { z } from 'zod';
-import { ConvergenceRowSchema } from './analysis/grid-convergence.js';
-import { SensitivityRowSchema } from './analysis/sensitivity-table.js';
-import { writeReport } from './commands/report.js';
-import { ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet-table.js';
-import { computeConvergence, computeSensitivity } from './report/report-assembly.js';
-import { readReportFolder } from './report/report-folder.js';
-import { SOLVER_VERSION } from '../solver/version.js';
+import { ConvergenceRowSchema } from '../analysis/grid-convergence.js';
+import { SensitivityRowSchema } from '../analysis/sensitivity-table.js';
+import { writeReport } from '../commands/report.js';
+import { ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
+import { computeConvergence, computeSensitivity } from '../report/assembly.js';
+import { readReportFolder } from '../analysis/read-tables.js';
+import { SOLVER_VERSION } from '../../solver/version.js';
 
 type JsonType = string | string[] | undefined;
 

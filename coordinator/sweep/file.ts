@@ -1,11 +1,11 @@
 // Reads a sweep file (YAML or JSON) and validates it: the schema, every vary path against the case schema, and
 // every listed or end-point value against the field it sets. Errors are one line naming the file, the path in it
-// and the fix; the full check of each expanded case happens in sweep-expand.ts.
+// and the fix; the full check of each expanded case happens in expand.ts.
 import { readFileSync } from 'node:fs';
 import { basename, extname } from 'node:path';
 import { parse as parseYaml, YAMLParseError } from 'yaml';
-import { CaseSchema } from '../schemas/case.js';
-import { formatIssue, UserError, userErrorFromZod } from '../schemas/errors.js';
+import { CaseSchema } from '../../schemas/case.js';
+import { formatIssue, UserError, userErrorFromZod } from '../../schemas/errors.js';
 import {
   defaultResolutionAxis,
   generatorKind,
@@ -15,9 +15,9 @@ import {
   type Sweep,
   varyPathProblem,
   withValueAt,
-} from '../schemas/sweep.js';
-import { countDesignPoints, listValues } from './sweep-expand.js';
-import { SALTELLI_MAX_PARAMETERS } from './sweep-sampling.js';
+} from '../../schemas/sweep.js';
+import { countDesignPoints, listValues } from './expand.js';
+import { SALTELLI_MAX_PARAMETERS } from '../sampling/designs.js';
 
 const CODE = 'loamwave.sweep.invalid';
 /** Most design points one sweep may have: beyond this the expansion alone would exhaust memory (a Loamwave choice). */

@@ -1,6 +1,6 @@
 // Tracks how far a sweep is, for the progress bar: job counts from the ledger and the estimated work (cell
 // updates) of finished jobs plus the solved share of running ones, so the ETA reflects that long jobs run first.
-import type { Ledger } from './ledger.js';
+import type { Ledger } from '../ledger/ledger.js';
 import type { ProgressState } from './progress-bar.js';
 
 export class SweepProgress {

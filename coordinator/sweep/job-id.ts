@@ -2,8 +2,8 @@
 // skips what is done and never queues a twin. A change of the solver's major version makes every job new.
 import { createHash } from 'node:crypto';
 import { createRequire } from 'node:module';
-import type { Case } from '../schemas/case.js';
-import { SOLVER_MAJOR } from '../solver/version.js';
+import type { Case } from '../../schemas/case.js';
+import { SOLVER_MAJOR } from '../../solver/version.js';
 
 // canonicalize is CommonJS whose typings claim an ES default export; load it as what it is (module.exports = fn).
 const canonicalize = createRequire(import.meta.url)('canonicalize') as (value: unknown) => string | undefined;
