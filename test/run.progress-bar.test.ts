@@ -2,7 +2,7 @@
 // run only, a pipe gets plain throttled lines, a terminal gets one line redrawn in place, NO_COLOR means no colour.
 import { Writable } from 'node:stream';
 import { describe, expect, it } from 'vitest';
-import { etaSeconds, formatDuration, ProgressBar, type ProgressState } from '../coordinator/progress-bar.js';
+import { etaSeconds, formatDuration, ProgressBar, type ProgressState } from '../coordinator/dispatch/progress-bar.js';
 
 class Capture extends Writable {
   text = '';

@@ -5,7 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { rateAndEta } from '../coordinator/commands/status.js';
-import type { LedgerJob } from '../coordinator/ledger.js';
+import type { LedgerJob } from '../coordinator/ledger/ledger.js';
 import { runCliSync } from './helpers/cli-process.js';
 import { ensureCompiled } from './helpers/compiled.js';
 import { removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';

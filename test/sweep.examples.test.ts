@@ -4,8 +4,8 @@ import { readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { estimateCost } from '../solver/index.js';
-import { loadSweep } from '../coordinator/sweep-file.js';
-import { expandSweep } from '../coordinator/sweep-expand.js';
+import { loadSweep } from '../coordinator/sweep/file.js';
+import { expandSweep } from '../coordinator/sweep/expand.js';
 
 const EXAMPLES = join(import.meta.dirname, '..', 'examples');
 const files = readdirSync(EXAMPLES).filter((f) => f.endsWith('.yaml')).sort();

@@ -3,9 +3,9 @@ import { createHash } from 'node:crypto';
 import { describe, expect, it } from 'vitest';
 import { parseCase } from '../schemas/case.js';
 import { UserError } from '../schemas/errors.js';
-import { jobIdFor, jobIdText } from '../coordinator/job-id.js';
-import { countDesignPoints, expandSweep, expandSweepDetailed, listValues } from '../coordinator/sweep-expand.js';
-import { parseSweep } from '../coordinator/sweep-file.js';
+import { jobIdFor, jobIdText } from '../coordinator/sweep/job-id.js';
+import { countDesignPoints, expandSweep, expandSweepDetailed, listValues } from '../coordinator/sweep/expand.js';
+import { parseSweep } from '../coordinator/sweep/file.js';
 
 const base = {
   frequency_hz: 20000,

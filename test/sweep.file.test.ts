@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { UserError } from '../schemas/errors.js';
 import { caseLeafPaths, editDistance, sweepJsonSchema } from '../schemas/sweep.js';
-import { loadSweep, parseSweep } from '../coordinator/sweep-file.js';
+import { loadSweep, parseSweep } from '../coordinator/sweep/file.js';
 
 const base = {
   frequency_hz: 20000,
