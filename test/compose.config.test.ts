@@ -55,8 +55,8 @@ describe('docker-compose.yml', () => {
     for (const a of s.command!.filter((x) => x.startsWith('--'))) expect(flags, a).toContain(a);
     if (service === 'coordinator') {
       expect(cmd.name()).toBe('run');
-      expect(operands).toEqual(['/sweeps/skerrow-point-beacon.yaml']);
-      expect(existsSync(join(PROJECT_ROOT, 'examples', 'skerrow-point-beacon.yaml'))).toBe(true);
+      expect(operands).toEqual(['/sweeps/quorvessin-vlf-coast.yaml']);
+      expect(existsSync(join(PROJECT_ROOT, 'examples', 'quorvessin-vlf-coast.yaml'))).toBe(true);
       expect(s.command).toContain('--redis');
       expect(s.volumes).toContain('./examples:/sweeps:ro');
     }

@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { runCliSync } from './helpers/cli-process.js';
 import { ensureCompiled, PROJECT_ROOT } from './helpers/compiled.js';
 
-const SWEEP = join(PROJECT_ROOT, 'examples', 'skerrow-point-beacon.yaml');
+const SWEEP = join(PROJECT_ROOT, 'examples', 'quorvessin-vlf-coast.yaml');
 let scratch: string;
 beforeAll(() => {
   ensureCompiled();
