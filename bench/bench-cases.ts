@@ -3,7 +3,7 @@
 // ground, pec ceiling, exponential ionosphere) for checking that a kernel change leaves solve() bit-identical.
 import { parseCase, type Case, type CaseInput } from '../schemas/case.js';
 
-/** Demo: the invented Brackenholt beacon, 20 kHz over moist farmland, 300 km × 60 km, 20 cells per wavelength. */
+/** Demo: the invented Dravelquine VLF transmitter (20 kHz, 1 kW) over moist farmland, 300 km × 60 km, 20 cells/λ. */
 const DEMO_INPUT: CaseInput = {
   geometry: 'axisymmetric',
   frequency_hz: 20_000,
@@ -27,7 +27,7 @@ const SMALL_INPUTS: Record<string, CaseInput> = {
     grid: { cells_per_wavelength: 10, absorbing_cells: 10 },
     receivers: { ranges_m: [20_000, 45_000] },
   },
-  'planar mixed path (farmland, Tarnwick lake), half-cell sampling, pec ceiling': {
+  'planar mixed path (farmland, Ethquarvel lake), half-cell sampling, pec ceiling': {
     geometry: 'planar',
     frequency_hz: 15_000,
     ground: {

@@ -152,7 +152,7 @@ function benchDemo(repeats: number): BenchReport['demo'] {
   const medianWallS = median(wallS);
   return {
     description:
-      'Brackenholt beacon (invented): 20 kHz, axisymmetric, impedance ground 3 mS/m εr 15, 300 km × 60 km, 20 cells/λ',
+      'Dravelquine VLF transmitter (invented): 20 kHz, 1 kW, axisymmetric, impedance ground 3 mS/m εr 15, 300 km × 60 km, 20 cells/λ',
     cells,
     steps,
     wallS,

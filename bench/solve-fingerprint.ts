@@ -55,7 +55,7 @@ function main(argv: string[]): number {
   }
   const before = compareFile ? (JSON.parse(readFileSync(compareFile, 'utf8')) as Record<string, Fingerprint>) : undefined;
   const cases = fingerprintCases();
-  if (withDemo) cases.push(['demo: Brackenholt beacon 20 kHz', demoCase()]);
+  if (withDemo) cases.push(['demo: Dravelquine VLF transmitter 20 kHz', demoCase()]);
   for (const f of files) cases.push([f, readCaseFile(f)]);
   const now = fingerprints(cases);
   if (!before) {
