@@ -15,7 +15,7 @@ import { expandSweep, type ExpandedJob } from '../coordinator/sweep/expand.js';
 import { parseSweep, parseSweepText } from '../coordinator/sweep/file.js';
 
 const SIGMA = 'ground.segments[0].conductivity_s_per_m';
-const SWEEP_TEXT = `# a small harbour-beacon study
+const SWEEP_TEXT = `# a small 20-24 kHz study over land and sea ground (invented)
 name: outputs-test
 base:
   frequency_hz: 20000

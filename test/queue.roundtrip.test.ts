@@ -48,12 +48,12 @@ function resultsOf(outDir: string): Map<string, unknown> {
 
 describe('queue round trip', () => {
   it('when 20 jobs go through submit, two worker processes and collect then the results equal the embedded run bit for bit', async () => {
-    const sweep = join(scratch, 'fenmoor-grid.yaml');
+    const sweep = join(scratch, 'quendravel-grid.yaml');
     writeFileSync(
       sweep,
       [
-        '# Fenmoor relay (invented): 20 kHz over fen country; conductivity × resolution, 20 small jobs.',
-        'name: fenmoor-grid',
+        '# Quendravel VLF transmitter (invented): 20 kHz over fen country; conductivity × resolution, 20 small jobs.',
+        'name: quendravel-grid',
         'base:',
         '  frequency_hz: 20000',
         '  ground: { model: impedance, segments: [{ start_m: 0, conductivity_s_per_m: 0.003, relative_permittivity: 15 }] }',
@@ -76,7 +76,7 @@ describe('queue round trip', () => {
     // Both workers serve the sweep's queue before anything is queued, so both take part.
     const logs = ['', ''];
     for (let i = 0; i < 2; i++) {
-      const w = spawn(process.execPath, [CLI, 'worker', ...q, '--concurrency', '1', '--sweep', 'fenmoor-grid'], { cwd: scratch, stdio: ['ignore', 'ignore', 'pipe'] });
+      const w = spawn(process.execPath, [CLI, 'worker', ...q, '--concurrency', '1', '--sweep', 'quendravel-grid'], { cwd: scratch, stdio: ['ignore', 'ignore', 'pipe'] });
       w.stderr!.on('data', (d) => (logs[i] += d));
       workers.push(w);
     }

@@ -16,9 +16,9 @@ import { parseSweep, parseSweepText } from '../coordinator/sweep/file.js';
 import { solve } from '../solver/index.js';
 import { checkReportPage, launchChromium, type Browser } from './report.page-check.js';
 
-// An invented scenario: the Brackenholt fen beacon, three frequencies, two ground conductivities, three grids.
-const SWEEP_TEXT = `name: brackenholt-fen
-description: Demo sweep for the invented Brackenholt fen beacon.
+// An invented scenario: the Pelquarrin VLF test transmitter, three frequencies, two ground conductivities, three grids.
+const SWEEP_TEXT = `name: pelquarrin-fen
+description: Demo sweep for the invented Pelquarrin VLF test transmitter over fen ground.
 base:
   frequency_hz: 20000
   ground: {model: impedance, segments: [{start_m: 0, conductivity_s_per_m: 0.01, relative_permittivity: 30}]}

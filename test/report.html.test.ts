@@ -61,12 +61,12 @@ function buildData(): ReportData {
     [1e-3, 1e-2, 4].map((s, j) => demoSeries(`job${i}${j}abcdef0123456789`, f, s)),
   );
   return ReportDataSchema.parse({
-    title: 'Loamwave report: Harrowmere beacon sweep',
+    title: 'Loamwave report: Ilvandreque VLF transmitter sweep',
     generated_by: 'loamwave 0.1.0',
     sweep: {
-      name: 'harrowmere-beacon',
-      description: 'Demo sweep over the invented Harrowmere–Quillby path: frequency and ground constants.',
-      file_name: 'harrowmere.yaml',
+      name: 'ilvandreque-vlf',
+      description: 'Demo sweep over the invented Ilvandreque–Tessarquin path: frequency and ground constants.',
+      file_name: 'ilvandreque.yaml',
       design: 'full_factorial',
       resolution_axis: 'grid.cells_per_wavelength',
       varied: [

@@ -92,7 +92,7 @@ describe('sweep file validation', () => {
 
 describe('sweep files on disk', () => {
   it.each([
-    ['YAML', 'ok.yaml', `name: harbour\nbase:\n  frequency_hz: 20000\n  ground: {segments: [{start_m: 0, conductivity_s_per_m: 0.003}]}\n  domain: {range_m: 60000, height_m: 20000}\n  receivers: {ranges_m: [10000]}\nvary:\n  frequency_hz: {values: [20000, 30000]}\n`],
+    ['YAML', 'ok.yaml', `name: quorvessin-vlf\nbase:\n  frequency_hz: 20000\n  ground: {segments: [{start_m: 0, conductivity_s_per_m: 0.003}]}\n  domain: {range_m: 60000, height_m: 20000}\n  receivers: {ranges_m: [10000]}\nvary:\n  frequency_hz: {values: [20000, 30000]}\n`],
     ['JSON', 'ok.json', JSON.stringify(sweepWith({ vary: { frequency_hz: { values: [20000, 30000] } } }))],
   ])('when a %s sweep file is loaded then the sweep and its text come back', (_kind, file, text) => {
     const path = join(dir, file);
