@@ -3,6 +3,7 @@
 // kernels and the reference do the same work per cell. Timing only: nothing here is a physical result.
 import { C0, EPS0, MU0 } from '../solver/constants.js';
 import { buildCpmlState } from '../solver/cpml.js';
+import { buildImpedanceRow } from '../solver/surface-impedance.js';
 import {
   applySurfaceImpedance,
   updateE,
@@ -112,13 +113,7 @@ export function buildBenchGrid(nx: number, nz: number, layout: 'per-cell' | 'pro
   const omega = 2 * Math.PI * frequencyHz;
   const rsOhm = Math.sqrt((omega * MU0) / (2 * CONDUCTOR_S_PER_M));
   const lsH = rsOhm / omega;
-  const zrow: ImpedanceRow = {
-    halfR: new Float64Array(nx).fill(rsOhm / 2),
-    lOverDt: new Float64Array(nx).fill(lsH / dtS),
-    wNear: 1.5,
-    wFar: -0.5,
-    hsPrev: new Float64Array(nx),
-  };
+  const zrow: ImpedanceRow = buildImpedanceRow(new Float64Array(nx).fill(rsOhm), new Float64Array(nx).fill(lsH), dtS, 'extrapolated');
   for (let i = 0; i < nx; i++) zrow.hsPrev[i] = fields.hy[i * S];
   const sourceIndex = Math.floor(nx / 4) * S + slabRows + Math.floor(nz / 16);
   return { fields, pml, zrow, sourceIndex, omegaDt: omega * dtS };

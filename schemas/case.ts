@@ -89,9 +89,37 @@ export const GridSchema = z
     message: 'give either cells_per_wavelength or cell_size_m, not both',
   });
 
+/** Mean earth radius, m (IUGG mean radius R1 = 6 371 008.8 m, Moritz, Geodetic Reference System 1980, rounded). */
+export const MEAN_EARTH_RADIUS_M = 6_371_000;
+/** Smallest and largest sphere radius accepted, m: from a small moon to a sphere flat enough for any path. */
+export const EARTH_RADIUS_MIN_M = 1e5;
+export const EARTH_RADIUS_MAX_M = 1e12;
+
+/**
+ * The sphere of the `spherical` geometry. Optional and without a default: an absent block stays absent in the
+ * parsed case (job ids hash the parsed case, so a default here would change every existing job's id); the solver
+ * then uses MEAN_EARTH_RADIUS_M. A flat geometry (`planar`, `axisymmetric`) accepts the block and ignores it, so
+ * one base case can sweep `geometry` between flat and spherical.
+ */
+export const EarthSchema = z.strictObject({
+  /** Radius of the earth sphere, m (e.g. 6 371 000, or 8 495 000 for the 4/3 effective radius). */
+  radius_m: z
+    .number({ error: 'expected a number (earth radius in m)' })
+    .finite()
+    .min(EARTH_RADIUS_MIN_M)
+    .max(EARTH_RADIUS_MAX_M),
+});
+
 export const CaseSchema = z
   .strictObject({
-    geometry: z.enum(['axisymmetric', 'planar']).default('axisymmetric'),
+    /**
+     * `axisymmetric` (flat earth, r–z, vertical dipole on the axis), `planar` (flat earth, x–z, vertical line
+     * current) or `spherical` (a sphere of `earth.radius_m`, ρ–θ, vertical dipole on the polar axis; ranges are
+     * great-circle distances along the surface and heights are above it).
+     */
+    geometry: z.enum(['axisymmetric', 'planar', 'spherical']).default('axisymmetric'),
+    /** The sphere for `spherical` (ignored by the flat geometries); absent: the mean earth radius. */
+    earth: EarthSchema.optional(),
     frequency_hz: z.number().min(100).max(3e6),
     source: z
       .strictObject({
@@ -104,7 +132,7 @@ export const CaseSchema = z
     ground: GroundSchema,
     upper_boundary: UpperBoundarySchema.default({ kind: 'open' }),
     domain: z.strictObject({
-      /** Range of the computed region (excluding the absorbing layer), m. */
+      /** Range of the computed region (excluding the absorbing layer), m; along the surface on the sphere. */
       range_m: positive('domain range in m'),
       /** Height of the computed region (excluding the absorbing layer), m. */
       height_m: positive('domain height in m'),
@@ -125,6 +153,21 @@ export const CaseSchema = z
       .default({ ramp_periods: 3, dft_periods: 2, max_steps: 2_000_000 }),
   })
   .superRefine((c, ctx) => {
+    if (c.geometry === 'spherical') {
+      // θ must stay below π (the antipode) with room for the far-side absorbing layer
+      const radiusM = c.earth?.radius_m ?? MEAN_EARTH_RADIUS_M;
+      const maxRangeM = 0.9 * Math.PI * radiusM;
+      if (c.domain.range_m > maxRangeM) {
+        ctx.addIssue({
+          code: 'custom',
+          path: ['domain', 'range_m'],
+          message: `must be <= 0.9 of half the circumference (${Math.round(maxRangeM)} m for earth.radius_m = ${radiusM}) on the spherical geometry; shorten the path or enlarge earth.radius_m`,
+        });
+      }
+      if (c.domain.height_m > radiusM) {
+        ctx.addIssue({ code: 'custom', path: ['domain', 'height_m'], message: `must be <= earth.radius_m (${radiusM}) on the spherical geometry` });
+      }
+    }
     c.receivers.ranges_m.forEach((r, i) => {
       if (r >= c.domain.range_m) {
         ctx.addIssue({
@@ -172,6 +215,11 @@ export type CaseInput = z.input<typeof CaseSchema>;
 /** A case with every default filled in. */
 export type Case = z.output<typeof CaseSchema>;
 export type GroundSegment = z.output<typeof GroundSegmentSchema>;
+
+/** Radius of the sphere a case runs on, m (the mean earth radius when `earth` is absent). */
+export function earthRadiusM(c: Pick<Case, 'earth'>): number {
+  return c.earth?.radius_m ?? MEAN_EARTH_RADIUS_M;
+}
 
 /** Parse and validate a case; `source` names where it came from (a file name, `sweep job 12`). */
 export function parseCase(input: unknown, source = 'case'): Case {

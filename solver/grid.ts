@@ -5,9 +5,23 @@
 //   Hy[i][k] at ((i+½)Δx, z_k + Δz_k/2)   i ∈ [0,nx), k ∈ [0,nz)
 //   Ex[i][k] at ((i+½)Δx, z_k)             i ∈ [0,nx), k ∈ [0,nz]
 //   Ez[i][k] at ( i·Δx,  z_k + Δz_k/2)     i ∈ [0,nx], k ∈ [0,nz)
-// Column i = 0 is the axis (axisymmetric) or the symmetry plane of the source (planar).
+// Column i = 0 is the axis (axisymmetric, spherical) or the symmetry plane of the source (planar).
 // Ex row `groundRow` lies on the ground surface z = 0; rows below it are resolved ground cells.
-import type { Case } from '../schemas/case.js';
+//
+// Spherical geometry (a sphere of radius a, source on the polar axis θ = 0): x is the distance along the surface,
+// x = a·θ (Δθ = Δx/a), z the height above it, ρ = a + z. The arrays hold Ez → E_ρ, Ex → Ẽθ = (ρ/a)·E_θ and
+// Hy → H̃ = (ρ/a)·H_φ. Maxwell's equations with ∂/∂φ = 0 (any text with the curl in spherical coordinates, e.g.
+// Balanis, Advanced Engineering Electromagnetics, 1989, app. II) then read
+//   μ0 ∂H̃/∂t = ∂E_ρ/∂x − ∂Ẽθ/∂ρ                     (from ρ·(∇×E)_φ = ∂(ρE_θ)/∂ρ − ∂E_ρ/∂θ)
+//   ε ∂Ẽθ/∂t + σẼθ = −∂H̃/∂ρ                          (from (∇×H)_θ = −(1/ρ)∂(ρH_φ)/∂ρ)
+//   ε ∂E_ρ/∂t + σE_ρ = (a/ρ)²·(1/(a·sinθ))·∂(sinθ·H̃)/∂θ   (from (∇×H)_ρ = (1/(ρ sinθ))∂(sinθ H_φ)/∂θ)
+// so the flat kernels run unchanged: H coefficients as on the flat grid, Ẽθ's as on the flat grid, and E_ρ's take
+// (a/ρ)² per row (folded into the Ez coefficient profile) and column weights from the areas of the spherical zones
+// (see radialFactors). Dividing the scaled fields by a (Holland 1983 and Marchenko et al. 2022 scale by ρ) keeps them
+// equal to the physical fields on the surface. In integral form (Ampère's and Faraday's laws on each Yee face, with
+// the exact face areas) this is the finite-integration form of the same grid, which conserves a discrete energy.
+import { earthRadiusM, type Case } from '../schemas/case.js';
+import { UserError } from '../schemas/errors.js';
 import { C0, EPS0, MU0 } from './constants.js';
 import { groundImpedance } from './surface-impedance.js';
 
@@ -41,6 +55,8 @@ export interface GridPlan {
    * impedance √(μ/ε) is unchanged, so the ground's normalised impedance is too.
    */
   materialScale: number;
+  /** Sphere radius a, m, for the spherical geometry; undefined on the flat geometries. */
+  earthRadiusM: number | undefined;
   /** Absorbing layer thickness at the far side (cells) and at the top (rows; 0 for a pec ceiling). */
   pmlX: number;
   pmlTop: number;
@@ -87,13 +103,32 @@ export function planGrid(c: Case): GridPlan {
   // 2-D Courant limit of the finest cells, Δt ≤ 1/(c·√(1/Δx² + 1/Δz²)) (Taflove & Hagness, Computational
   // Electrodynamics, ch. 4); in the ground the local wave speed is c/√εr, which relaxes its limit.
   let dtLimit = 1 / (C0 * Math.sqrt(1 / (dxM * dxM) + 1 / (dxM * dxM)));
+  // On the sphere a cell's length along θ is ρΔθ = Δx·ρ/a, shortest at the bottom of the resolved ground.
+  const earthR = c.geometry === 'spherical' ? earthRadiusM(c) : undefined;
+  if (earthR !== undefined && earthR + zNodeM[0] <= 0) {
+    throw new UserError(
+      `earth.radius_m (${earthR}) is smaller than the resolved ground's depth (${-zNodeM[0]} m); enlarge earth.radius_m`,
+      'loamwave.case.invalid',
+    );
+  }
+  const dxGroundM = earthR !== undefined ? (dxM * (earthR + zNodeM[0])) / earthR : dxM;
   if (groundRows > 0) {
     const epsMin = Math.min(...(c.ground.segments ?? []).map((s) => s.relative_permittivity));
     const vGround = C0 / Math.sqrt(epsMin);
-    dtLimit = Math.min(dtLimit, 1 / (vGround * Math.sqrt(1 / (dxM * dxM) + 1 / (dzGroundM * dzGroundM))));
+    dtLimit = Math.min(dtLimit, 1 / (vGround * Math.sqrt(1 / (dxGroundM * dxGroundM) + 1 / (dzGroundM * dzGroundM))));
     // the first air row above the fine ground rows uses the air speed with the mean spacing
     const dzMix = (dxM + dzGroundM) / 2;
     dtLimit = Math.min(dtLimit, 1 / (C0 * Math.sqrt(1 / (dxM * dxM) + 1 / (dzMix * dzMix))));
+  }
+  if (earthR !== undefined) {
+    // the whole grid, absorbing layer included, must end before the antipode θ = π
+    const thetaEnd = ((nx + 1) * dxM) / earthR;
+    if (thetaEnd >= Math.PI) {
+      throw new UserError(
+        `domain.range_m plus the absorbing layer (${Math.round((nx + 1) * dxM)} m) reaches the antipode (π·earth.radius_m = ${Math.round(Math.PI * earthR)} m); shorten domain.range_m or grid.absorbing_cells`,
+        'loamwave.case.invalid',
+      );
+    }
   }
   // Whole number of steps per period, so a DFT over whole periods is exact (REFERENCES.md, numerical notes).
   const periodS = 1 / c.frequency_hz;
@@ -118,6 +153,7 @@ export function planGrid(c: Case): GridPlan {
     nz,
     cellsRange,
     materialScale,
+    earthRadiusM: earthR,
     groundRow: groundRows,
     dzM,
     zNodeM,
@@ -159,6 +195,7 @@ export function buildMaterials(c: Case, g: GridPlan): Materials {
   const caEz = new Float64Array(nProfiles * S);
   const cbEz = new Float64Array(nProfiles * S);
   const iono = c.upper_boundary.kind === 'exponential' ? c.upper_boundary : undefined;
+  const earthR = g.earthRadiusM;
 
   const airSigma = (zM: number): number => (iono ? ionosphereConductivity(zM, iono.h_prime_km, iono.beta_per_km) : 0);
   const coeff = (epsPhysical: number, sigmaPhysical: number): [number, number] => {
@@ -199,7 +236,12 @@ export function buildMaterials(c: Case, g: GridPlan): Materials {
         }
         const [ca2, cb2] = coeff(epsEz, sigEz);
         caEz[ik] = ca2;
-        cbEz[ik] = cb2 / dxM;
+        if (earthR === undefined) cbEz[ik] = cb2 / dxM;
+        else {
+          // sphere: (a/ρ)² at the E_ρ row's radius (the middle of the cell), see the module comment
+          const aOverRho = earthR / (earthR + zMid);
+          cbEz[ik] = ((cb2 / dxM) * aOverRho) * aOverRho;
+        }
       }
     }
   }
@@ -226,10 +268,31 @@ export function magneticCoefficients(g: GridPlan): { chx: number; chz: Float64Ar
   return { chx: g.dtS / (mu * g.dxM), chz };
 }
 
-/** Axis factors of the Ez update: (1/r)∂(rH)/∂r ≈ (rp·H[i] − rm·H[i−1])/Δx; planar: 1 and 1. */
-export function radialFactors(c: Case, nx: number): { rp: Float64Array; rm: Float64Array; axisFactor: number } {
+/**
+ * Column factors of the Ez update, (1/r)∂(rH)/∂r ≈ (rp·H[i] − rm·H[i−1])/Δx, and the factor of the on-axis update
+ * ∂Ez/∂t = (axisFactor/(εΔx))·H[0]; planar: 1, 1 and 2.
+ * Spherical: Ampère's law on the zone of the sphere θ_{i−½} < θ < θ_{i+½} (area 2πρ²(cosθ_{i−½} − cosθ_{i+½}),
+ * rim lengths 2πρ·sinθ_{i±½}) gives (1/(a sinθ))∂(sinθ·H)/∂θ ≈ (rp·H[i] − rm·H[i−1])/Δx with
+ * rp, rm = Δθ·sinθ_{i±½}/(cosθ_{i−½} − cosθ_{i+½}), and cosθ_{i−½} − cosθ_{i+½} = 2·sinθ_i·sin(Δθ/2) written so
+ * (the difference of two cosines near 1 would lose most digits at Δθ ~ 1e-5). On the axis, the polar cap
+ * θ < Δθ/2 (area 2πρ²(1 − cos(Δθ/2)) = 4πρ²·sin²(Δθ/4), rim 2πρ·sin(Δθ/2)):
+ * axisFactor = Δθ·sin(Δθ/2)/(2 sin²(Δθ/4)), which tends to the flat disk's 4 as Δθ → 0.
+ */
+export function radialFactors(c: Case, nx: number, g?: GridPlan): { rp: Float64Array; rm: Float64Array; axisFactor: number } {
   const rp = new Float64Array(nx + 1).fill(1);
   const rm = new Float64Array(nx + 1).fill(1);
+  if (c.geometry === 'spherical') {
+    if (g?.earthRadiusM === undefined) throw new Error('radialFactors: the spherical geometry needs the grid plan');
+    const dTheta = g.dxM / g.earthRadiusM;
+    const zone = 2 * Math.sin(dTheta / 2); // (cosθ_{i−½} − cosθ_{i+½})/sinθ_i
+    for (let i = 1; i <= nx; i++) {
+      const den = zone * Math.sin(i * dTheta);
+      rp[i] = (dTheta * Math.sin((i + 0.5) * dTheta)) / den;
+      rm[i] = (dTheta * Math.sin((i - 0.5) * dTheta)) / den;
+    }
+    const s4 = Math.sin(dTheta / 4);
+    return { rp, rm, axisFactor: (dTheta * Math.sin(dTheta / 2)) / (2 * s4 * s4) };
+  }
   if (c.geometry === 'axisymmetric') {
     for (let i = 1; i <= nx; i++) {
       rp[i] = (i + 0.5) / i;
@@ -240,6 +303,28 @@ export function radialFactors(c: Case, nx: number): { rp: Float64Array; rm: Floa
   // body-of-revolution chapter). On the planar symmetry plane Hy(−Δx/2) = −Hy(Δx/2), so the factor is 2.
   const axisFactor = c.geometry === 'axisymmetric' ? 4 : 2;
   return { rp, rm, axisFactor };
+}
+
+/**
+ * Area of the source cell's cross-section normal to the vertical current, m²: the disk π(Δx/2)² on the
+ * axisymmetric axis, the polar cap 2πa²(1 − cos(Δθ/2)) = 4πa²·sin²(Δθ/4) on the sphere (at the surface radius: the
+ * E_ρ coefficient carries (a/ρ)², so J over the cap at ρ folds to this), Δx (per metre of line) on the planar grid.
+ */
+export function sourceCellAreaM2(c: Case, g: GridPlan): number {
+  if (c.geometry === 'spherical') {
+    const a = g.earthRadiusM!;
+    const s4 = Math.sin(g.dxM / a / 4);
+    return 4 * Math.PI * a * a * s4 * s4;
+  }
+  return c.geometry === 'axisymmetric' ? Math.PI * (g.dxM / 2) ** 2 : g.dxM;
+}
+
+/**
+ * Factor turning the scaled fields of a row into physical ones: a/ρ at height `heightM` on the sphere (Ẽθ, H̃ are
+ * (ρ/a)·E_θ, (ρ/a)·H_φ), 1 on the flat grids.
+ */
+export function metricUnscale(g: GridPlan, heightM: number): number {
+  return g.earthRadiusM === undefined ? 1 : g.earthRadiusM / (g.earthRadiusM + heightM);
 }
 
 export { MU0 };

@@ -15,10 +15,10 @@ import {
   type ImpedanceRow,
   type YeeFields,
 } from './fdtd-kernel.js';
-import { buildMaterials, magneticCoefficients, planGrid, radialFactors, type GridPlan } from './grid.js';
+import { buildMaterials, magneticCoefficients, metricUnscale, planGrid, radialFactors, sourceCellAreaM2, type GridPlan } from './grid.js';
 import { buildReceiverTaps, RunningDft, type Tap } from './receivers.js';
 import { sourceCurrent, targetMoment } from './source.js';
-import { groundImpedance } from './surface-impedance.js';
+import { buildImpedanceRow, groundImpedance } from './surface-impedance.js';
 import { SOLVER_VERSION } from './version.js';
 
 export { SolveCancelledError, SolverDivergedError } from './errors.js';
@@ -99,7 +99,7 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   const S = nz + 1;
   const size = (nx + 1) * S;
   const mat = buildMaterials(c, g);
-  const { rp, rm, axisFactor } = radialFactors(c, nx);
+  const { rp, rm, axisFactor } = radialFactors(c, nx, g);
   const f: YeeFields = {
     nx,
     nz,
@@ -119,11 +119,11 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   let zrow: ImpedanceRow | undefined;
   if (c.ground.model === 'impedance') {
     const segs = c.ground.segments ?? [];
-    const halfR = new Float64Array(nx);
-    const lOverDt = new Float64Array(nx);
+    const rOhm = new Float64Array(nx);
+    const lH = new Float64Array(nx);
     // A column that straddles a segment boundary takes the length-weighted mean of the impedances of the parts
     // it covers, so a coastline between grid lines moves the answer smoothly with the cell size (common practice
-    // for sub-cell material boundaries).
+    // for sub-cell material boundaries). On the sphere lengths are along the surface, as the segments' starts are.
     const zs = segs.map((s) => groundImpedance(c.frequency_hz, s.conductivity_s_per_m, s.relative_permittivity));
     for (let i = 0; i < nx; i++) {
       const x0 = i * g.dxM;
@@ -139,19 +139,21 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
           l += w * zs[j].inductanceH;
         }
       }
-      halfR[i] = r / 2;
-      lOverDt[i] = l / g.dtS;
+      rOhm[i] = r;
+      lH[i] = l;
     }
-    const extrapolated = c.ground.impedance_sampling === 'extrapolated';
-    zrow = { halfR, lOverDt, wNear: extrapolated ? 1.5 : 1, wFar: extrapolated ? -0.5 : 0, hsPrev: new Float64Array(nx) };
+    // sphere: the H rows hold (ρ/a)·H, so their weights in H at the surface take a/ρ of each row
+    const rowScale: [number, number] = [metricUnscale(g, g.dzM[0] / 2), metricUnscale(g, g.dzM[0] + g.dzM[1] / 2)];
+    zrow = buildImpedanceRow(rOhm, lH, g.dtS, c.ground.impedance_sampling, rowScale);
   }
 
   // Source: a vertical current element filling the Ez cell on the axis (or symmetry plane) at the source height.
   let ks = g.groundRow;
   while (ks + 1 < nz && g.zNodeM[ks + 1] <= c.source.height_m + 1e-9) ks++;
   const dzs = g.dzM[ks];
-  const areaM2 = c.geometry === 'axisymmetric' ? Math.PI * (g.dxM / 2) ** 2 : g.dxM;
-  // ε∂Ez/∂t = curl − J: the update adds −cb′·J, cb′ = cbEz·Δx
+  const areaM2 = sourceCellAreaM2(c, g);
+  // ε∂Ez/∂t = curl − J: the update adds −cb′·J, cb′ = cbEz·Δx (on the sphere cbEz also carries (a/ρ)², which turns
+  // the cap at the source's radius ρ into the cap at the surface radius that areaM2 measures)
   const sourceCoef = -(mat.cbEz[mat.colEz[0] + ks] * g.dxM) / areaM2;
   const omega = 2 * Math.PI * c.frequency_hz;
   const sch = schedule(c, g);
@@ -251,7 +253,8 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   opts.onProgress?.(1);
   return {
     solver_version: SOLVER_VERSION,
-    geometry: c.geometry,
+    // schemas/result.ts lists only the flat geometries so far (its owner adds "spherical"; see the report)
+    geometry: c.geometry as SolveResult['geometry'],
     frequency_hz: c.frequency_hz,
     receivers: out,
     grid: {

@@ -8,7 +8,7 @@ import { applySurfaceImpedance, updateE, updateECpml, updateH, updateHCpml, type
 import { buildMaterials, magneticCoefficients, planGrid } from './grid.js';
 import { RunningDft, type Tap } from './receivers.js';
 import { sourceCurrent } from './source.js';
-import { groundImpedance } from './surface-impedance.js';
+import { buildImpedanceRow, groundImpedance } from './surface-impedance.js';
 
 export interface NormalIncidenceResult {
   /** Reflection of the ground, E_reflected/E_incident at z = 0 (e^{jωt}). */
@@ -91,8 +91,7 @@ export function runNormalIncidence(c: Case): NormalIncidenceResult {
   if (c.ground.model === 'impedance') {
     const s = (c.ground.segments ?? [])[0];
     const z = groundImpedance(c.frequency_hz, s.conductivity_s_per_m, s.relative_permittivity);
-    const ex = c.ground.impedance_sampling === 'extrapolated';
-    zrow = { halfR: new Float64Array([z.resistanceOhm / 2]), lOverDt: new Float64Array([z.inductanceH / g.dtS]), wNear: ex ? 1.5 : 1, wFar: ex ? -0.5 : 0, hsPrev: new Float64Array(1) };
+    zrow = buildImpedanceRow([z.resistanceOhm], [z.inductanceH], g.dtS, c.ground.impedance_sampling);
   }
   // rows: ground surface g0; probes a quarter and a half of the way up; the sheet source at 3/4; above it two more
   const g0 = g.groundRow;

@@ -4,7 +4,7 @@
 // advanced to the receiver's range first): plain linear interpolation of an e^{−jkx} wave would lose
 // 1 − cos(kΔx/2) of its amplitude midway between columns (0.17 dB at 16 cells per wavelength), an error that
 // changes sign with the receiver's place in the cell and makes grid convergence look oscillatory.
-import type { GridPlan } from './grid.js';
+import { metricUnscale, type GridPlan } from './grid.js';
 
 export type FieldName = 'ex' | 'ez' | 'hy';
 
@@ -62,11 +62,13 @@ function columnWeights(g: GridPlan, rangeM: number, half: boolean): Array<[numbe
 export function buildReceiverTaps(g: GridPlan, rangesM: readonly number[], heightM: number, impedanceRow: boolean): ReceiverTaps[] {
   const S = g.nz + 1;
   return rangesM.map((rangeM) => {
-    const taps = (field: FieldName, half: boolean, centred: boolean, offset: (k: number) => number): Tap[] => {
+    // unscale(k): the factor from the stored field of row k to the physical one (a/ρ for Ẽθ and H̃ on the sphere,
+    // see grid.ts; 1 for E_ρ and on the flat grids, where w·1 is w exactly)
+    const taps = (field: FieldName, half: boolean, centred: boolean, offset: (k: number) => number, unscale: (k: number) => number): Tap[] => {
       const out: Tap[] = [];
       for (const [i, wi, xM] of columnWeights(g, rangeM, half)) {
         for (const [k, wk] of rowWeights(g, heightM, centred)) {
-          if (wi * wk !== 0) out.push({ field, index: i * S + k, weight: wi * wk, offsetM: rangeM - xM, halfStepOffset: offset(k) });
+          if (wi * wk !== 0) out.push({ field, index: i * S + k, weight: wi * wk * unscale(k), offsetM: rangeM - xM, halfStepOffset: offset(k) });
         }
       }
       return out;
@@ -74,10 +76,10 @@ export function buildReceiverTaps(g: GridPlan, rangesM: readonly number[], heigh
     return {
       rangeM,
       heightM,
-      ez: taps('ez', false, true, () => 2),
+      ez: taps('ez', false, true, () => 2, () => 1),
       // the impedance ground row holds E at n·Δt after step n (it is solved with the H update)
-      ex: taps('ex', true, false, (k) => (impedanceRow && k === 0 ? 0 : 2)),
-      hy: taps('hy', true, true, () => 1),
+      ex: taps('ex', true, false, (k) => (impedanceRow && k === 0 ? 0 : 2), (k) => metricUnscale(g, g.zNodeM[k])),
+      hy: taps('hy', true, true, () => 1, (k) => metricUnscale(g, g.zNodeM[k] + g.dzM[k] / 2)),
     };
   });
 }

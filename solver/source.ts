@@ -18,7 +18,7 @@ export function sourceCurrent(tS: number, omega: number, rampS: number): number 
 
 /**
  * Peak current moment (A·m; A for planar, per metre of line) that radiates `power_w` over a perfect ground.
- * Axisymmetric: P = 80π²(I·l/λ)² for a short element standing on a perfect plane with its image (from the Hertzian
+ * Axisymmetric and spherical: P = 80π²(I·l/λ)² for a short element standing on a perfect plane with its image (from the Hertzian
  * dipole's radiation resistance 80π²(l/λ)², doubled field over half the sphere: Balanis, Antenna Theory, ch. 4).
  * Planar: P′ = η0·p²·k/8 per metre for a line of vertical elements on a perfect plane (derived from the 2-D
  * Green's function −(j/4)H0⁽²⁾(kρ); derivation in solver/references/dipole.ts).
@@ -26,7 +26,8 @@ export function sourceCurrent(tS: number, omega: number, rampS: number): number 
 export function targetMoment(c: Case): number {
   const lambdaM = C0 / c.frequency_hz;
   const P = c.source.power_w;
-  if (c.geometry === 'axisymmetric') return lambdaM * Math.sqrt(P / (80 * Math.PI * Math.PI));
+  // the sphere's radius is ≫ λ, so the element and its image radiate as over a plane (the same moment)
+  if (c.geometry === 'axisymmetric' || c.geometry === 'spherical') return lambdaM * Math.sqrt(P / (80 * Math.PI * Math.PI));
   const k = (2 * Math.PI) / lambdaM;
   return Math.sqrt((8 * P) / (ETA0 * k));
 }

@@ -31,6 +31,12 @@ describe('case schema', () => {
     expect(c.receivers.height_m).toBe(0);
   });
 
+  it('when the earth block is left out then it stays out of the parsed case (job ids unchanged), and a flat geometry accepts it', () => {
+    expect('earth' in parseCase(base)).toBe(false);
+    expect('earth' in parseCase({ ...base, geometry: 'spherical' })).toBe(false);
+    expect(parseCase({ ...base, geometry: 'planar', earth: { radius_m: 8.495e6 } }).earth).toEqual({ radius_m: 8.495e6 });
+  });
+
   it.each([
     [{ ...base, frequency_hz: -5 }, 'case.json: frequency_hz: must be >= 100 (got -5)'],
     [
@@ -41,6 +47,9 @@ describe('case schema', () => {
     [{ ...base, upper_boundary: { kind: 'lid' } }, 'upper_boundary.kind'],
     [{ ...base, ground: { model: 'impedance' } }, 'ground.segments: is required for ground model "impedance"'],
     [{ ...base, colour: 'red' }, 'unknown key(s) "colour"'],
+    [{ ...base, geometry: 'spherical', earth: { radius_m: 6371 } }, 'case.json: earth.radius_m: must be >= 100000 (got 6371)'],
+    [{ ...base, geometry: 'spherical', earth: { radius_m: 6.371e6, flattening: 0.003 } }, 'earth: unknown key(s) "flattening"'],
+    [{ ...base, geometry: 'spherical', earth: { radius_m: 1e6 }, domain: { range_m: 3e6, height_m: 6e4 } }, 'domain.range_m: must be <= 0.9 of half the circumference'],
   ])('when the case is wrong then the one-line error names the field (%#)', (input, expected) => {
     const msg = errorOf(input);
     expect(msg).toContain(expected);
