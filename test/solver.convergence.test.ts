@@ -5,7 +5,7 @@ import { parseCase } from '../schemas/case.js';
 import { solve } from '../solver/index.js';
 import { runNormalIncidence } from '../solver/normal-incidence.js';
 import { normalIncidenceReflection } from '../solver/references/fresnel.js';
-import { pecDipoleFieldVPerM } from '../solver/verify.js';
+import { pecDipoleFieldVPerM } from '../solver/verify/index.js';
 
 const orders = (errors: number[]) => errors.slice(1).map((e, i) => Math.log2(errors[i] / e));
 

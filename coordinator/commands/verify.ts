@@ -1,7 +1,7 @@
 // `loamwave verify [--json]`: run the published-reference checks on small cases and print a table;
 // exit code 1 when any check fails.
 import type { Command } from 'commander';
-import { referenceChecks, type CheckOutcome } from '../../solver/verify.js';
+import { referenceChecks, type CheckOutcome } from '../../solver/verify/index.js';
 
 export function registerVerify(program: Command): void {
   program
@@ -19,7 +19,7 @@ export function registerVerify(program: Command): void {
       }
       const failed = outcomes.filter((o) => !o.pass).length;
       if (opts.json) {
-        process.stdout.write(JSON.stringify(outcomes.map(({ check, source, expected, got, tolerance, pass }) => ({ check, source, expected, got, tolerance, pass })), null, 2) + '\n');
+        process.stdout.write(JSON.stringify(outcomes.map(({ check, source, expected, got, tolerance, toleranceReason, pass }) => ({ check, source, expected, got, tolerance, tolerance_reason: toleranceReason, pass })), null, 2) + '\n');
       } else {
         for (const o of outcomes) {
           process.stdout.write(`${o.pass ? 'pass' : 'FAIL'}  ${o.check}\n      expected ${o.expected}  got ${o.got}  tolerance ${o.tolerance}\n      source: ${o.source}\n`);
