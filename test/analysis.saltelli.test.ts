@@ -44,7 +44,7 @@ describe('Saltelli design', () => {
 
 describe('Sobol indices', () => {
   // Ishigami a = 7, b = 0.1: analytic indices (derived from the published variance decomposition of Ishigami &
-  // Homma 1990; values as in REFERENCES.md, derived): S = 0.313905, 0.442411, 0; ST = 0.557589, 0.442411, 0.243684.
+  // Homma 1990; values as in docs/references.md, derived): S = 0.313905, 0.442411, 0; ST = 0.557589, 0.442411, 0.243684.
   const S = [0.313905, 0.442411, 0];
   const ST = [0.557589, 0.442411, 0.243684];
   const n = 4096;

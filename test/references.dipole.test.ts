@@ -32,7 +32,7 @@ const jOmegaEps = (frequencyHz: number): C => c(0, 2 * Math.PI * frequencyHz * E
 
 describe('short vertical dipole on a perfect plane', () => {
   it('when a dipole radiates 1 kW then the far field at the ground is 300 mV/m rms at 1 km', () => {
-    // shared/REFERENCES.md: E_rms = 300·√(P/1 kW)/d_km mV/m (cymomotive force 300 V, the reference of ITU-R P.368's
+    // docs/references.md: E_rms = 300·√(P/1 kW)/d_km mV/m (cymomotive force 300 V, the reference of ITU-R P.368's
     // curves; derived from the Hertzian radiation resistance with η = 120π). With the exact η0 it is
     // √(3η0P/(4π))/d = 299.895 mV/m: agreement 0.035 %, inside the tolerance 0.05 %.
     const rms = pecDipoleFarFieldRmsVPerM(1000, 1000);
@@ -46,7 +46,7 @@ describe('short vertical dipole on a perfect plane', () => {
   });
 
   it('when P = 80π²(I·l/λ)² with η = 120π then the exact-η0 power differs only by η0/(120π)', () => {
-    // shared/REFERENCES.md: P = 80π²(I·l/λ)² (peak I). The module uses η0·k²(Il)²/(6π); the ratio of the two is
+    // docs/references.md: P = 80π²(I·l/λ)² (peak I). The module uses η0·k²(Il)²/(6π); the ratio of the two is
     // η0/(120π) = 0.99930 exactly (derived), checked to rounding.
     const f = 20e3;
     const moment = 150;

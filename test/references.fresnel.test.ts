@@ -1,5 +1,5 @@
 // Plane-wave references of a lossy ground: normal-incidence reflection, surface impedance, skin depth and the
-// good-conductor approximation, against the values of shared/REFERENCES.md and handbook figures.
+// good-conductor approximation, against the values of docs/references.md and handbook figures.
 import { describe, expect, it } from 'vitest';
 import { ETA0 } from '../solver/constants.js';
 import { abs, arg, c, div, relativeDistance, sqrt } from '../solver/references/complex.js';
@@ -17,7 +17,7 @@ import { expectComplexClose, expectRealClose } from './references.expect-close.j
 
 describe('normal-incidence reflection from a lossy half-space', () => {
   // Γ = (η2 − η0)/(η2 + η0), η2 = √(jωμ0/(σ + jωε0ε_r)) (Balanis, Advanced Engineering Electromagnetics, 1989);
-  // values: shared/REFERENCES.md, "derived" (computed from that formula, here re-derived independently with
+  // values: docs/references.md, "derived" (computed from that formula, here re-derived independently with
   // mpmath 1.3.0 to 10 digits). Tolerance: half a unit of the last quoted decimal, per component.
   it.each([
     { ground: 'sea water 4 S/m, ε_r 80', f: 10e3, sigma: 4, epsR: 80, re: -0.99947259, im: 0.00052713, half: 5e-9 },
@@ -41,7 +41,7 @@ describe('normal-incidence reflection from a lossy half-space', () => {
 
 describe('surface impedance and skin depth', () => {
   // δ = √(2/(ωμσ)), Rs = √(ωμ/2σ), Ls = Rs/ω (Pozar, Microwave Engineering, 2012, ch. 1); check values from
-  // shared/REFERENCES.md ("derived"). Tolerance: half a unit of the last quoted digit.
+  // docs/references.md ("derived"). Tolerance: half a unit of the last quoted digit.
   it.each([
     { name: 'sea water 4 S/m at 10 kHz', f: 10e3, sigma: 4, deltaM: 2.5165, dTol: 5e-5, rsOhm: 0.099346, rTol: 5e-7 },
     { name: 'ground 0.01 S/m at 10 kHz', f: 10e3, sigma: 0.01, deltaM: 50.33, dTol: 5e-3, rsOhm: 1.9869, rTol: 5e-5 },
@@ -53,12 +53,12 @@ describe('surface impedance and skin depth', () => {
   });
 
   it('when the ground is sea water at 10 kHz then Ls = 1.5811 µH', () => {
-    // shared/REFERENCES.md, derived; half a unit of the fifth digit.
+    // docs/references.md, derived; half a unit of the fifth digit.
     expectRealClose('Ls', surfaceInductanceH(10e3, 4), 1.5811e-6, 0, 5e-11);
   });
 
   it('when the conductor is copper at 1 GHz then Rs = 8.250 mΩ, close to the handbook 8.2 mΩ', () => {
-    // σ = 5.8e7 S/m: Rs = 8.250 mΩ (shared/REFERENCES.md, derived; half a unit of the last digit). Handbook tables
+    // σ = 5.8e7 S/m: Rs = 8.250 mΩ (docs/references.md, derived; half a unit of the last digit). Handbook tables
     // of copper's surface resistance give about 8.2 mΩ at 1 GHz (memory), with a slightly different σ: 1 %.
     const rs = surfaceResistanceOhm(1e9, 5.8e7);
     expectRealClose('Rs copper', rs, 8.25e-3, 0, 5e-7);
@@ -85,7 +85,7 @@ describe('surface impedance and skin depth', () => {
   });
 
   it.each([
-    // x = σ/(ωε0ε_r). Relative error of (1 + j)Rs against η0/√ε_c is about 1/(2x) (shared/REFERENCES.md,
+    // x = σ/(ωε0ε_r). Relative error of (1 + j)Rs against η0/√ε_c is about 1/(2x) (docs/references.md,
     // derived: first-order expansion of (1 + j/x)^{−1/2}); measured ratios to 1/(2x): 1.0000, 0.99997, 0.9943.
     { name: 'sea water at 10 kHz', f: 10e3, sigma: 4, epsR: 80, ratioTol: 1e-3 },
     { name: 'wet ground at 100 kHz', f: 100e3, sigma: 0.01, epsR: 30, ratioTol: 1e-3 },
@@ -98,7 +98,7 @@ describe('surface impedance and skin depth', () => {
   });
 
   it('when the ground is dry at 300 kHz then the good-conductor impedance is 12 % off the exact one', () => {
-    // shared/REFERENCES.md: "good-conductor form off by 12 %" for 1e-3 S/m, ε_r 15, 300 kHz (derived). Measured
+    // docs/references.md: "good-conductor form off by 12 %" for 1e-3 S/m, ε_r 15, 300 kHz (derived). Measured
     // here: 12.4 % in the impedance; the reflection coefficient it gives is off by only 3.2 %.
     const exact = surfaceImpedance(300e3, 1e-3, 15);
     const approx = goodConductorSurfaceImpedance(300e3, 1e-3);

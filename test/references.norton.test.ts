@@ -1,4 +1,4 @@
-// The Sommerfeld–Norton attenuation function against the derived values of shared/REFERENCES.md, an
+// The Sommerfeld–Norton attenuation function against the derived values of docs/references.md, an
 // arbitrary-precision library, its small- and large-w series, and the numerical distance of a good conductor.
 import { describe, expect, it } from 'vitest';
 import { C0, EPS0 } from '../solver/constants.js';
@@ -32,7 +32,7 @@ const NORTON_CASE = [-0.095031682910187638, -0.55259991488431519, -0.09927651255
 
 describe('Sommerfeld–Norton attenuation function F(w)', () => {
   // Sommerfeld 1909; Norton, Proc. IRE 24, 1936; Wait, IEEE Antennas Propag. Mag. 40(5), 1998: values from
-  // shared/REFERENCES.md ("derived"). Tolerance: half a unit of the last decimal quoted, per component.
+  // docs/references.md ("derived"). Tolerance: half a unit of the last decimal quoted, per component.
   it.each([
     { w: c(0.1), re: 0.812815, im: -0.507161, half: 5e-7 },
     { w: c(1), re: -0.076159, im: -0.652049, half: 5e-7 },
@@ -72,7 +72,7 @@ describe('Sommerfeld–Norton attenuation function F(w)', () => {
   });
 
   it.each([1e2, 1e3, 1e5])('when |w| = %s is large then F tends to −1/(2w), with −3/(4w²) next', (r) => {
-    // Asymptotic series F ~ −Σ (2n−1)!!/(2w)^n (from that of w(z), A&S 7.1.23; shared/REFERENCES.md: F → −1/(2w)).
+    // Asymptotic series F ~ −Σ (2n−1)!!/(2w)^n (from that of w(z), A&S 7.1.23; docs/references.md: F → −1/(2w)).
     // Tolerance: the first omitted term 15/(8|w|³) relative to |1/(2w)| is 15/(4|w|²); doubled.
     for (const phase of [0, -Math.PI / 6, -Math.PI / 3, -Math.PI / 2]) {
       const w = fromPolar(r, phase);
@@ -115,7 +115,7 @@ describe('numerical distance and the field ratio', () => {
     { f: 100e3, sigma: 5e-4, epsR: 10 },
     { f: 300e3, sigma: 1e-4, epsR: 3 },
   ])('when σ = $sigma S/m, ε_r = $epsR at $f Hz then the grazing Δ and 1/√ε_c differ by 1/(2ε_c)', ({ f, sigma, epsR }) => {
-    // √(ε_c − 1)/ε_c ÷ (1/√ε_c) = √(1 − 1/ε_c) = 1 − 1/(2ε_c) − 1/(8ε_c²) − … (shared/REFERENCES.md: Δ ≈ 1/√ε_c;
+    // √(ε_c − 1)/ε_c ÷ (1/√ε_c) = √(1 − 1/ε_c) = 1 − 1/(2ε_c) − 1/(8ε_c²) − … (docs/references.md: Δ ≈ 1/√ε_c;
     // derived). Tolerance: the next term 1/(8|ε_c|²), doubled.
     const epsC = complexPermittivity(f, sigma, epsR);
     const grazing = nortonDelta(f, sigma, epsR, 'grazing');

@@ -1,5 +1,5 @@
 // The quasi-TEM mode of the perfect-ceiling, impedance-floor guide against the derived values of
-// shared/REFERENCES.md, the one-lossy-wall perturbation formula and its next-order correction, and the
+// docs/references.md, the one-lossy-wall perturbation formula and its next-order correction, and the
 // lossless reactive-floor case.
 import { describe, expect, it } from 'vitest';
 import { C0 } from '../solver/constants.js';
@@ -16,7 +16,7 @@ const F_HZ = 10e3;
 const K = (2 * Math.PI * F_HZ) / C0;
 
 describe('planar guide with a perfect ceiling and an impedance floor', () => {
-  // Exact modal equation k_z·tan(k_z·d) = j·k·Δ, γ = √(k_z² − k²) (shared/REFERENCES.md; α derived there):
+  // Exact modal equation k_z·tan(k_z·d) = j·k·Δ, γ = √(k_z² − k²) (docs/references.md; α derived there):
   // 10 kHz, d = 70 km, Δ = η/η0 = 1/√ε_c. Tolerance: half a unit of the last quoted digit. (The grazing
   // Δ = √(ε_c − 1)/ε_c gives 1.40257e-7 for the second case, which would not round to the quoted 1.4023e-7.)
   it.each([
@@ -39,7 +39,7 @@ describe('planar guide with a perfect ceiling and an impedance floor', () => {
   });
 
   it.each([
-    // shared/REFERENCES.md: perturbation "0.3 % lower" (sea) and "17 % lower" (dry ground). Measured: the
+    // docs/references.md: perturbation "0.3 % lower" (sea) and "17 % lower" (dry ground). Measured: the
     // perturbation is 0.257 % below the exact α for sea water, and 15.0 % below it for dry ground (the exact α
     // is 17.7 % above the perturbation, which is the reading that matches "17 %").
     { ground: 'sea water', sigma: 4, epsR: 80, below: 0.00257, tol: 2e-5 },

@@ -1,4 +1,4 @@
-// Numerical dispersion of the Yee grid against the derived values of shared/REFERENCES.md, the exact diagonal and
+// Numerical dispersion of the Yee grid against the derived values of docs/references.md, the exact diagonal and
 // magic-time-step cases, and the second-order error expansion.
 import { describe, expect, it } from 'vitest';
 import { C0 } from '../solver/constants.js';
@@ -11,7 +11,7 @@ import { expectRealClose } from './references.expect-close.js';
 
 describe('Yee numerical dispersion', () => {
   // Dispersion relation of Taflove & Hagness, Computational Electrodynamics, ch. 4 (memory); values from
-  // shared/REFERENCES.md ("derived"). Tolerance: half a unit of the sixth decimal.
+  // docs/references.md ("derived"). Tolerance: half a unit of the sixth decimal.
   it.each([
     { dimensions: 2 as const, courant: Math.SQRT1_2, n: 10, want: 0.991485 },
     { dimensions: 2 as const, courant: Math.SQRT1_2, n: 20, want: 0.997926 },
@@ -28,7 +28,7 @@ describe('Yee numerical dispersion', () => {
 
   it.each([5, 10, 20, 80])('when 2-D square cells at S = 1/√2 carry %s cells/λ along the diagonal then v_p = c', (n) => {
     // Exact: on the diagonal k̃x = k̃z = k̃/√2 and the relation reduces to sin(k̃Δ/(2√2)) = sin(ωΔt/2) with
-    // cΔt = Δ/√2 (shared/REFERENCES.md, "exactly 1", derived). Tolerance: Newton's stop 1e-15 plus rounding.
+    // cΔt = Δ/√2 (docs/references.md, "exactly 1", derived). Tolerance: Newton's stop 1e-15 plus rounding.
     const v = yeePhaseVelocityRatioNormalised({ cellsPerWavelength: n, courant: Math.SQRT1_2, angleRad: Math.PI / 4 });
     expectRealClose('v_p/c', v, 1, 3e-15);
   });

@@ -131,7 +131,7 @@ describe('report command on a real output folder', () => {
 
 describe('sensitivity assembled from a Saltelli runs table', () => {
   it('when the runs carry design roles and Ishigami outputs then the Sobol indices are the analytic ones', () => {
-    // Ishigami & Homma 1990, a = 7, b = 0.1 (REFERENCES.md, derived): S = 0.313905, 0.442411, 0 and
+    // Ishigami & Homma 1990, a = 7, b = 0.1 (docs/references.md, derived): S = 0.313905, 0.442411, 0 and
     // ST = 0.557589, 0.442411, 0.243684. The runs table is shuffled so only design_role/design_sample place them.
     const n = 1024;
     const sweep = parseSweep(

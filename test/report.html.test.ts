@@ -15,7 +15,7 @@ const OUT = resolve('test-output');
 
 /**
  * Ez over a perfect ground for a 1 kW short monopole: 300 mV/m at 1 km, falling as 1/d (the reference of the
- * ITU-R P.368 ground-wave curves; REFERENCES.md, derived), here scaled by an invented loss factor per conductivity
+ * ITU-R P.368 ground-wave curves; docs/references.md, derived), here scaled by an invented loss factor per conductivity
  * for the demo, with the free-space phase −360°·f·r/c plus a small invented lag.
  */
 function demoSeries(jobId: string, frequencyHz: number, conductivity: number): FieldSeries {
