@@ -12,7 +12,7 @@ export interface CpmlProfile {
 
 /** Polynomial grading order m (cubic: common practice, Taflove & Hagness ch. 7). */
 const GRADING_ORDER = 3;
-/** ln of the nominal normal-incidence reflection of the layer (REFERENCES.md numerical notes: ln R0 = −40 measured). */
+/** ln of the nominal normal-incidence reflection of the layer (docs/references.md, Numerical notes: ln R0 = −40 measured). */
 const LN_R0 = -40;
 
 /**

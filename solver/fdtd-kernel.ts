@@ -205,7 +205,7 @@ export function updateHCpml(f: YeeFields, p: CpmlState): void {
 /**
  * Surface impedance on the ground row, solved together with the first H row so it is stable for any R, L:
  *   Ex^n = −(R·Hs^n + L·(∂Hs/∂t)^n),  Hs^n ≈ (Hs^{n+½} + Hs^{n−½})/2,  (∂Hs/∂t)^n ≈ (Hs^{n+½} − Hs^{n−½})/Δt
- * (the Leontovich condition E_tan = Zs·(n̂ × H), n̂ = +z out of the ground, so Ex = −Zs·Hy: REFERENCES.md; Maloney
+ * (the Leontovich condition E_tan = Zs·(n̂ × H), n̂ = +z out of the ground, so Ex = −Zs·Hy: docs/references.md; Maloney
  * & Smith, IEEE Trans. Antennas Propag. 40(1), 1992, for the R + L form). `updateH` has already advanced Hy[i][0]
  * with the stale Ex[i][0]; that contribution is taken out, and the pair (Hy[i][0], Ex^n[i][0]) solved exactly:
  *   Hy0 = P + c·Ex0,  Ex0 = −(a+b)(wN·Hy0 + wF·Hy1) − (a−b)·Hs_prev,  c = Δt/(μ0Δz0).

@@ -130,7 +130,7 @@ export function planGrid(c: Case): GridPlan {
       );
     }
   }
-  // Whole number of steps per period, so a DFT over whole periods is exact (REFERENCES.md, numerical notes).
+  // Whole number of steps per period, so a DFT over whole periods is exact (docs/references.md, Numerical notes).
   const periodS = 1 / c.frequency_hz;
   const stepsPerPeriod = Math.ceil(periodS / (c.grid.courant * dtLimit));
   const dtS = periodS / stepsPerPeriod;

@@ -5,7 +5,7 @@ import { C0, ETA0 } from './constants.js';
 /**
  * Source current (peak 1 A after the ramp) at time t: the time derivative of a smooth charge,
  * I(t) = d/dt[r(t)·sin(ωt)/ω] = r·cos(ωt) + r′·sin(ωt)/ω, so no static charge is left at the source
- * (REFERENCES.md, numerical notes). r is the quintic smoothstep 10τ³ − 15τ⁴ + 6τ⁵ over the ramp (common practice).
+ * (docs/references.md, Numerical notes). r is the quintic smoothstep 10τ³ − 15τ⁴ + 6τ⁵ over the ramp (common practice).
  */
 export function sourceCurrent(tS: number, omega: number, rampS: number): number {
   if (tS <= 0) return 0;

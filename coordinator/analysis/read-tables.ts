@@ -14,7 +14,7 @@ import type { FieldRecord, FolderTables, RunRecord } from '../report/assembly.js
 
 const CODE = 'loamwave.report.input';
 
-/** Names of the files the report reads (DESIGN.md "Outputs"). */
+/** Names of the files the report reads (README, "Outputs"). */
 export const REPORT_INPUTS = {
   runs: 'runs.parquet',
   fields: 'fields',

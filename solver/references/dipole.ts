@@ -60,7 +60,7 @@ function fromSphericalComponents(eRadial: C, eAngular: C, h: C, sinAngle: number
  * Power radiated into the half-space above the perfect plane by the dipole of moment I·l (peak):
  * P = η0·k²·(I·l)²/(6π) (W) — half the power of the free-space dipole 2·I·l, whose radiated power is
  * η(k·2Il)²/(12π) (Balanis 2005, §4.2, from memory). With η ≈ 120π this is the familiar P = 80π²(I·l/λ)²
- * (shared/REFERENCES.md); with the exact η0 it is 0.07 % lower.
+ * (docs/references.md); with the exact η0 it is 0.07 % lower.
  */
 export function pecDipoleRadiatedPowerW(frequencyHz: number, momentAM: number): number {
   const k = (2 * Math.PI * frequencyHz) / C0;
@@ -76,7 +76,7 @@ export function pecDipoleMomentForPowerAM(frequencyHz: number, powerW: number): 
 /**
  * Far-field rms E at the ground, distance d, for a dipole radiating P over a perfect plane:
  * E_rms = √(3η0P/(4π))/d (V/m), from |E_z|peak = η0·k·Il/(2πd) and P above (derived). With η0 ≈ 120π this is
- * √(90P)/d, i.e. 300·√(P/1 kW)/d_km mV/m (the reference of ITU-R P.368's ground-wave curves; shared/REFERENCES.md),
+ * √(90P)/d, i.e. 300·√(P/1 kW)/d_km mV/m (the reference of ITU-R P.368's ground-wave curves; docs/references.md),
  * of which the exact η0 gives 299.90 mV/m.
  */
 export function pecDipoleFarFieldRmsVPerM(powerW: number, rangeM: number): number {

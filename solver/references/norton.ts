@@ -75,7 +75,7 @@ export interface NortonOptions {
 /**
  * Field over a homogeneous flat ground divided by the field over a perfect ground at the same range, both ends
  * at ground level: F(w(d)) (complex, e^{jωt}). The same ratio holds for the 2-D line source over an impedance
- * plane with w = −j·k·x·Δ²/2 (shared/REFERENCES.md, derived from the exact spectral integral to 0.02–0.6 % for
+ * plane with w = −j·k·x·Δ²/2 (docs/references.md, derived from the exact spectral integral to 0.02–0.6 % for
  * k·x from 10 to 3000). Valid for k·d ≫ 1 (the formula drops near-field terms of relative size 1/(kd)).
  */
 export function nortonFieldRatio(

@@ -22,7 +22,7 @@ export interface GuideMode {
  * Lowest TM mode of the guide 0 < z < d with a perfect conductor at z = d and, at z = 0, the impedance condition
  * E_tan = Zs·(n̂ × H) (n̂ = +z out of the floor), Δ = Zs/η0. With Hy = cos(k_z(z − d)) the exact modal equation is
  *   k_z·tan(k_z·d) = j·k·Δ,   γ = √(k_z² − k²) = α + jβ
- * (derived here from Ampère's law Ex = −(1/(jωε0))∂Hy/∂z and Ex = −Zs·Hy at the floor; shared/REFERENCES.md).
+ * (derived here from Ampère's law Ex = −(1/(jωε0))∂Hy/∂z and Ex = −Zs·Hy at the floor; docs/references.md).
  *
  * Method: complex Newton iteration on f(k_z) = k_z·sin(k_z d) − jkΔ·cos(k_z d) (the same roots, no poles) from the
  * small-impedance root k_z² ≈ jkΔ/d (tan x ≈ x), stopped at a step below 1e-14·|k_z| (quadratic convergence:
