@@ -1,5 +1,5 @@
-// Builds and runs the shared native C reference kernel (../shared/bench/fdtd2d.c, outside the project: a yardstick,
-// never copied in) so the benchmark can set our kernels' speed beside it in one run.
+// Builds and runs the native C reference kernel (fdtd2d.c: an external yardstick, not part of the repository and
+// never copied in; see docs/references.md) so the benchmark can set our kernels' speed beside it in one run.
 // Build goes to a fresh temporary directory; a missing compiler or source is reported, not thrown.
 import { execFileSync, spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
