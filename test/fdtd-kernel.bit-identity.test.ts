@@ -1,10 +1,13 @@
 // The update kernels (solver/fdtd-kernel.ts) do eight cells per pass for speed; these tests hold them to the plain
-// one-cell loops below, bit for bit, on grids whose sizes exercise every remainder and edge path.
+// one-cell loops below, bit for bit, on grids whose sizes exercise every remainder and edge path, in both
+// coefficient layouts: per-cell arrays (colEx[i] = i·S) and the column profiles solve() runs on (columns of one
+// ground segment share one profile, as solver/grid.ts buildMaterials makes them).
 // The reference loops are the Yee updates as written out cell by cell (Yee, IEEE Trans. Antennas Propag. 14(3),
 // 1966; Taflove & Hagness, Computational Electrodynamics, 3rd ed. 2005, ch. 3) with the CPML auxiliary fields of
 // Roden & Gedney (Microwave Opt. Technol. Lett. 27(5), 2000), in the kernel module's own index layout.
 import { describe, expect, it } from 'vitest';
 import { createPrng, type Prng } from '../coordinator/sampling/prng.js';
+import { parseCase } from '../schemas/case.js';
 import {
   applySurfaceImpedance,
   updateE,
@@ -15,6 +18,7 @@ import {
   type ImpedanceRow,
   type YeeFields,
 } from '../solver/fdtd-kernel.js';
+import { buildMaterials, planGrid } from '../solver/grid.js';
 
 function referenceH(f: YeeFields): void {
   const { nx, nz, S, ex, ez, hy, chx, chz } = f;
@@ -47,24 +51,28 @@ function referenceHCpml(f: YeeFields, p: CpmlState): void {
   }
 }
 
+// The coefficient of cell (i, k) is at colEx[i] + k (Ex) and colEz[i] + k (Ez), the layout's definition
+// (YeeFields in solver/fdtd-kernel.ts).
 function referenceE(f: YeeFields): void {
-  const { nx, nz, S, ex, ez, hy, caEx, cbEx, caEz, cbEz, rp, rm, axisFactor } = f;
-  for (let k = 0; k < nz; k++) ez[k] = caEz[k] * ez[k] + cbEz[k] * axisFactor * hy[k];
-  for (let k = 1; k < nz; k++) ex[k] = caEx[k] * ex[k] + cbEx[k] * (hy[k - 1] - hy[k]);
+  const { nx, nz, S, ex, ez, hy, caEx, cbEx, caEz, cbEz, colEx, colEz, rp, rm, axisFactor } = f;
+  for (let k = 0; k < nz; k++) ez[k] = caEz[colEz[0] + k] * ez[k] + cbEz[colEz[0] + k] * axisFactor * hy[k];
+  for (let k = 1; k < nz; k++) ex[k] = caEx[colEx[0] + k] * ex[k] + cbEx[colEx[0] + k] * (hy[k - 1] - hy[k]);
   for (let i = 1; i < nx; i++) {
     for (let k = 1; k < nz; k++) {
       const ik = i * S + k;
-      ex[ik] = caEx[ik] * ex[ik] + cbEx[ik] * (hy[ik - 1] - hy[ik]);
+      const c = colEx[i] + k;
+      ex[ik] = caEx[c] * ex[ik] + cbEx[c] * (hy[ik - 1] - hy[ik]);
     }
     for (let k = 0; k < nz; k++) {
       const ik = i * S + k;
-      ez[ik] = caEz[ik] * ez[ik] + cbEz[ik] * (rp[i] * hy[ik] - rm[i] * hy[ik - S]);
+      const c = colEz[i] + k;
+      ez[ik] = caEz[c] * ez[ik] + cbEz[c] * (rp[i] * hy[ik] - rm[i] * hy[ik - S]);
     }
   }
 }
 
 function referenceECpml(f: YeeFields, p: CpmlState): void {
-  const { nz, S, ex, ez, hy, cbEx, cbEz, nx } = f;
+  const { nz, S, ex, ez, hy, cbEx, cbEz, colEx, colEz, nx } = f;
   for (let j = 0; j < p.px; j++) {
     const i = p.ix0 + j;
     if (i < 1) continue;
@@ -72,7 +80,7 @@ function referenceECpml(f: YeeFields, p: CpmlState): void {
       const ik = i * S + k;
       const psi = p.bEz[j] * p.psiEz[j * S + k] + p.aEz[j] * (hy[ik] - hy[ik - S]);
       p.psiEz[j * S + k] = psi;
-      ez[ik] += cbEz[ik] * psi;
+      ez[ik] += cbEz[colEz[i] + k] * psi;
     }
   }
   for (let i = 0; i < nx; i++) {
@@ -82,7 +90,7 @@ function referenceECpml(f: YeeFields, p: CpmlState): void {
       const ik = i * S + k;
       const psi = p.bEx[j] * p.psiEx[i * p.pz + j] + p.aEx[j] * (hy[ik - 1] - hy[ik]);
       p.psiEx[i * p.pz + j] = psi;
-      ex[ik] += cbEx[ik] * psi;
+      ex[ik] += cbEx[colEx[i] + k] * psi;
     }
   }
 }
@@ -99,11 +107,49 @@ function fill(a: Float64Array, rng: Prng, scale: number): Float64Array {
   return a;
 }
 
+/** Where each column's coefficients live: `profiles` columns of S values, column i's at colEx[i] and colEz[i]. */
+interface Layout {
+  profiles: number;
+  colEx: Int32Array;
+  colEz: Int32Array;
+}
+
+/** Per-cell arrays: every column its own profile (the benchmark's `plain` layout). */
+function perCellLayout(nx: number, S: number): Layout {
+  const col = Int32Array.from({ length: nx + 1 }, (_, i) => i * S);
+  return { profiles: nx + 1, colEx: col, colEz: Int32Array.from(col) };
+}
+
+/**
+ * Column profiles by ground segment, by buildMaterials' rule (solver/grid.ts): a segment starting at `startsCells`
+ * (in cells, off the grid lines) covers Ex at (i+½)Δx and Ez at i·Δx from there on, so a boundary column has its
+ * Ex and Ez in different profiles.
+ */
+function segmentLayout(nx: number, S: number, startsCells: number[]): Layout {
+  const starts = [...new Set(startsCells.filter((x) => x < nx))].sort((a, b) => a - b);
+  const segment = (x: number): number => {
+    let j = 0;
+    for (let s = 0; s < starts.length; s++) if (starts[s] <= x) j = s;
+    return j;
+  };
+  return {
+    profiles: starts.length,
+    colEx: Int32Array.from({ length: nx + 1 }, (_, i) => segment(i + 0.5) * S),
+    colEz: Int32Array.from({ length: nx + 1 }, (_, i) => segment(i) * S),
+  };
+}
+
+/** Segment starts for a shape: the first column, a third and two thirds along, and one inside the far layer. */
+function segmentStarts(nx: number, px: number): number[] {
+  return [0, 0.3 * nx + 0.3, 0.6 * nx + 0.6, nx - px / 2 + 0.3];
+}
+
 /** A grid with every field, coefficient and ψ random (seeded), CPML layers of px columns and pz rows. */
-function randomGrid(nx: number, nz: number, px: number, pz: number, seed: number): Grid {
+function randomGrid(nx: number, nz: number, px: number, pz: number, seed: number, layout: Layout): Grid {
   const rng = createPrng(seed);
   const S = nz + 1;
   const size = (nx + 1) * S;
+  const coefficients = layout.profiles * S;
   const r = (n: number, scale: number): Float64Array => fill(new Float64Array(n), rng, scale);
   const f: YeeFields = {
     nx,
@@ -112,12 +158,12 @@ function randomGrid(nx: number, nz: number, px: number, pz: number, seed: number
     ex: r(size, 1),
     ez: r(size, 1),
     hy: r(size, 1e-2),
-    caEx: r(size, 0.9),
-    cbEx: r(size, 0.3),
-    caEz: r(size, 0.9),
-    cbEz: r(size, 0.3),
-    colEx: Int32Array.from({ length: nx + 1 }, (_, i) => i * S),
-    colEz: Int32Array.from({ length: nx + 1 }, (_, i) => i * S),
+    caEx: r(coefficients, 0.9),
+    cbEx: r(coefficients, 0.3),
+    caEz: r(coefficients, 0.9),
+    cbEz: r(coefficients, 0.3),
+    colEx: layout.colEx,
+    colEz: layout.colEz,
     chx: 0.2 + rng.nextFloat() * 0.1,
     chz: r(nz, 0.2),
     rp: r(nx + 1, 1),
@@ -173,29 +219,72 @@ const SHAPES: Array<[string, number, number, number, number]> = [
   ['no top layer (pec ceiling)', 21, 17, 6, 0],
 ];
 
+/** Six leapfrog steps of kernels and reference loops side by side, compared after every update. */
+function expectBitIdentical(make: () => Grid): void {
+  const ref = make();
+  const ker = make();
+  for (let step = 0; step < 6; step++) {
+    referenceH(ref.f);
+    updateH(ker.f);
+    expect(firstDifference(ref, ker), `after updateH, step ${step}`).toBeUndefined();
+    referenceHCpml(ref.f, ref.p);
+    updateHCpml(ker.f, ker.p);
+    expect(firstDifference(ref, ker), `after updateHCpml, step ${step}`).toBeUndefined();
+    // the surface-impedance row is not unrolled: the same function on both keeps the two grids in step
+    applySurfaceImpedance(ref.f, ref.z);
+    applySurfaceImpedance(ker.f, ker.z);
+    referenceE(ref.f);
+    updateE(ker.f);
+    expect(firstDifference(ref, ker), `after updateE, step ${step}`).toBeUndefined();
+    referenceECpml(ref.f, ref.p);
+    updateECpml(ker.f, ker.p);
+    expect(firstDifference(ref, ker), `after updateECpml, step ${step}`).toBeUndefined();
+  }
+  // the comparison has teeth: the fields moved away from their starting values
+  expect(firstDifference(make(), ker)).toBeDefined();
+}
+
+/** The layout is what it claims: profiles shared by several columns, and some column with Ex and Ez apart. */
+function expectSharedProfiles(layout: Layout, nx: number): void {
+  expect(layout.profiles).toBeGreaterThan(1);
+  expect(layout.profiles).toBeLessThan(nx + 1);
+  expect(layout.colEx.some((o, i) => o !== layout.colEz[i])).toBe(true);
+}
+
 describe('fdtd kernels against the one-cell reference loops', () => {
-  it.each(SHAPES)('when the grid has %s (%i×%i, layers %i and %i) then six leapfrog steps match bit for bit', (_label, nx, nz, px, pz) => {
-    const ref = randomGrid(nx, nz, px, pz, 20261201 + nx);
-    const ker = randomGrid(nx, nz, px, pz, 20261201 + nx);
-    for (let step = 0; step < 6; step++) {
-      referenceH(ref.f);
-      updateH(ker.f);
-      expect(firstDifference(ref, ker), `after updateH, step ${step}`).toBeUndefined();
-      referenceHCpml(ref.f, ref.p);
-      updateHCpml(ker.f, ker.p);
-      expect(firstDifference(ref, ker), `after updateHCpml, step ${step}`).toBeUndefined();
-      // the surface-impedance row is not unrolled: the same function on both keeps the two grids in step
-      applySurfaceImpedance(ref.f, ref.z);
-      applySurfaceImpedance(ker.f, ker.z);
-      referenceE(ref.f);
-      updateE(ker.f);
-      expect(firstDifference(ref, ker), `after updateE, step ${step}`).toBeUndefined();
-      referenceECpml(ref.f, ref.p);
-      updateECpml(ker.f, ker.p);
-      expect(firstDifference(ref, ker), `after updateECpml, step ${step}`).toBeUndefined();
-    }
-    // the comparison has teeth: the fields moved away from their starting values
-    const start = randomGrid(nx, nz, px, pz, 20261201 + nx);
-    expect(firstDifference(start, ker)).toBeDefined();
+  it.each(SHAPES)('when the grid has %s (%i×%i, layers %i and %i) and per-cell coefficients then six leapfrog steps match bit for bit', (_label, nx, nz, px, pz) => {
+    const layout = perCellLayout(nx, nz + 1);
+    expectBitIdentical(() => randomGrid(nx, nz, px, pz, 20261201 + nx, layout));
+  });
+
+  it.each(SHAPES)('when the grid has %s (%i×%i, layers %i and %i) and column profiles by segment then six leapfrog steps match bit for bit', (_label, nx, nz, px, pz) => {
+    const layout = segmentLayout(nx, nz + 1, segmentStarts(nx, px));
+    expectSharedProfiles(layout, nx);
+    expectBitIdentical(() => randomGrid(nx, nz, px, pz, 20261202 + nx, layout));
+  });
+
+  it('when the layout is the one buildMaterials makes for a three-segment resolved ground then six leapfrog steps match bit for bit', () => {
+    // a small invented case: 100 kHz, 100 m cells, three ground segments whose starts fall between grid lines
+    const c = parseCase({
+      geometry: 'axisymmetric',
+      frequency_hz: 1e5,
+      ground: {
+        model: 'resolved',
+        segments: [
+          { start_m: 0, conductivity_s_per_m: 1e-2, relative_permittivity: 30 },
+          { start_m: 730, conductivity_s_per_m: 1e-3, relative_permittivity: 15 },
+          { start_m: 1640, conductivity_s_per_m: 4e-3, relative_permittivity: 20 },
+        ],
+      },
+      domain: { range_m: 2000, height_m: 900 },
+      grid: { cell_size_m: 100, absorbing_cells: 9 },
+      receivers: { ranges_m: [1000] },
+    });
+    const g = planGrid(c);
+    const mat = buildMaterials(c, g);
+    const layout: Layout = { profiles: mat.caEx.length / (g.nz + 1), colEx: mat.colEx, colEz: mat.colEz };
+    expectSharedProfiles(layout, g.nx);
+    expect(mat.colEx.length).toBe(g.nx + 1);
+    expectBitIdentical(() => randomGrid(g.nx, g.nz, g.pmlX, g.pmlTop, 20261203, layout));
   });
 });
