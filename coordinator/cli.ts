@@ -1,7 +1,10 @@
 // The `loamwave` command line: one module per command under commands/, registered here.
-// Only this entry point exits the process; commands throw UserError for user mistakes.
+// Only this entry point exits the process; commands throw UserError for user mistakes. Each command loads its heavy
+// modules (database engine, plot library, queue library, solver) inside its action, so `--help` and `--version`
+// start in a fraction of a second.
 import { Command, CommanderError } from 'commander';
 import { UserError } from '../schemas/errors.js';
+import { ExitCode } from '../schemas/exit-codes.js';
 import { SOLVER_VERSION } from '../solver/version.js';
 import { registerCommands } from './commands/index.js';
 
@@ -28,8 +31,8 @@ export async function main(argv: string[]): Promise<void> {
 
 function exitCodeFor(err: unknown): number {
   if (err instanceof CommanderError) {
-    // commander has already printed its message (help, version, or a usage error).
-    return err.exitCode;
+    // commander has already printed its message: help and version exit 0, a usage error is a mistake in the input.
+    return err.exitCode === 0 ? ExitCode.done : ExitCode.inputMistake;
   }
   if (err instanceof UserError) {
     process.stderr.write(`error: ${err.message}\n`);
@@ -37,5 +40,5 @@ function exitCodeFor(err: unknown): number {
   }
   const e = err as Error;
   process.stderr.write(`internal error: ${e?.stack ?? String(err)}\n`);
-  return 70;
+  return ExitCode.internalError;
 }

@@ -1,6 +1,7 @@
 // User-facing errors: one line naming the field and the fix. Programming errors stay plain `Error`s and throw.
 // Every zod issue is turned into English here and nowhere else.
 import type { z } from 'zod';
+import { ExitCode } from './exit-codes.js';
 
 /** A mistake of the user's (bad file, bad option): printed as one line, exit code 2, never a stack trace. */
 export class UserError extends Error {
@@ -8,11 +9,19 @@ export class UserError extends Error {
   readonly code: string;
   /** Process exit code the entry point should use. */
   readonly exitCode: number;
-  constructor(message: string, code = 'loamwave.input.invalid', exitCode = 2) {
+  constructor(message: string, code = 'loamwave.input.invalid', exitCode: number = ExitCode.inputMistake) {
     super(message);
     this.name = 'UserError';
     this.code = code;
     this.exitCode = exitCode;
+  }
+}
+
+/** A service the command needs cannot be reached: one line naming it and the fix, exit code 3. */
+export class ServiceUnreachableError extends UserError {
+  constructor(message: string, code = 'loamwave.service.unreachable') {
+    super(message, code, ExitCode.serviceUnreachable);
+    this.name = 'ServiceUnreachableError';
   }
 }
 

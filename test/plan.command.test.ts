@@ -121,9 +121,10 @@ describe('loamwave plan', () => {
   });
 
   it.each([
-    [['--max-memory-gib', '0.0001'], 'needs', 'raise --max-memory-gib'],
-    [['--workers', '0'], 'plan: --workers must be a whole number >= 1 (got "0")', ''],
-    [['--max-memory-gib', 'lots'], 'plan: --max-memory-gib must be a number > 0', ''],
+    [['--max-memory-mib', '0.01'], 'needs', 'raise --max-memory-mib'],
+    [['--workers', '0'], "option '--workers <n>' argument '0' is invalid. expected a whole number from 1", ''],
+    [['--workers', 'x'], "option '--workers <n>' argument 'x' is invalid", ''],
+    [['--max-memory-mib', 'lots'], "option '--max-memory-mib <n>' argument 'lots' is invalid", ''],
   ])('when the options are %j then plan refuses with one line and a non-zero exit', async (extra, first, fix) => {
     const { err, code } = await cli('plan', SWEEP, ...extra);
     expect(code).toBe(2);

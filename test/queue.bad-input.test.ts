@@ -22,8 +22,8 @@ describe('queue commands given bad input', () => {
     ['run with a password in an unreachable URL', ['run', SWEEP, '--redis', 'redis://:hush@127.0.0.1:1'], 3, /^error: --redis: cannot reach redis:\/\/:\*\*\*@127\.0\.0\.1:1 /],
     ['collect from a URL of the wrong scheme', ['collect', SWEEP, '--redis', 'http://127.0.0.1:6379'], 2, /^error: --redis: the URL must start with redis:\/\/ or rediss:\/\//],
     ['submit with a prefix holding a colon', ['submit', SWEEP, '--redis', 'redis://127.0.0.1:1', '--prefix', 'a:b'], 2, /^error: --prefix: "a:b" may hold only/],
-    ['submit without --redis', ['submit', SWEEP], 1, /^error: required option '--redis <url>' not specified$/],
-    ['a worker with zero concurrency', ['worker', '--redis', 'redis://127.0.0.1:1', '--concurrency', '0'], 1, /^error: option '--concurrency <n>' argument '0' is invalid\. expected a whole number from 1 to 1024$/],
+    ['submit without --redis', ['submit', SWEEP], 2, /^error: required option '--redis <url>' not specified$/],
+    ['a worker with zero concurrency', ['worker', '--redis', 'redis://127.0.0.1:1', '--concurrency', '0'], 2, /^error: option '--concurrency <n>' argument '0' is invalid\. expected a whole number from 1 to 1024$/],
   ])('when it is %s then one line says so and nothing is written', (_what, args, code, message) => {
     const out = join(scratch, `out-${args[0]}-${code}`);
     const withOut = args[0] === 'worker' ? args : [...args, '--out', out];

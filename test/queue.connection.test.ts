@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { UserError } from '../schemas/errors.js';
 import { priorityForCost, PRIORITY_LIMIT } from '../coordinator/queue/submit.js';
 import { QueueHandles, queueTarget } from '../coordinator/queue/target.js';
-import { queueNameFor } from '../worker/queue-payload.js';
+import { queueNameFor } from '../schemas/queue-names.js';
 import { redactedUrl, redisOptions, redisServerWarnings } from '../worker/redis-connection.js';
 import { removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
 

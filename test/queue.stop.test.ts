@@ -6,7 +6,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Queue } from 'bullmq';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { queueNameFor } from '../worker/queue-payload.js';
+import { queueNameFor } from '../schemas/queue-names.js';
 import { redisOptions } from '../worker/redis-connection.js';
 import { killAll, runCli, startCli, until } from './helpers/cli-process.js';
 import { ensureCompiled } from './helpers/compiled.js';

@@ -8,7 +8,7 @@ import { join } from 'node:path';
 import Database from 'better-sqlite3';
 import { Queue } from 'bullmq';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { queueNameFor } from '../worker/queue-payload.js';
+import { queueNameFor } from '../schemas/queue-names.js';
 import { redisOptions } from '../worker/redis-connection.js';
 import { runCase } from '../worker/run-case.js';
 import { killAll, startCli, until } from './helpers/cli-process.js';

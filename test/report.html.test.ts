@@ -7,7 +7,8 @@ import { convergenceTable, type ConvergenceRun } from '../coordinator/analysis/g
 import { saltelliDesign, saltelliIndices, saltelliRows } from '../coordinator/analysis/saltelli.js';
 import { ReportDataSchema, type FieldSeries, type ReportData } from '../coordinator/report/data.js';
 import { buildReportHtml, escapeHtml } from '../coordinator/report/html.js';
-import { fieldPlots, MAX_FIELD_LINES, renderSvg, residualPhaseDeg } from '../coordinator/report/plots.js';
+import { fieldPlots, MAX_FIELD_LINES, renderSvg } from '../coordinator/report/plots.js';
+import { residualPhaseDeg } from '../coordinator/analysis/residual-phase.js';
 import { C0 } from '../solver/constants.js';
 import { checkReportPage, launchChromium, type Browser } from './report.page-check.js';
 

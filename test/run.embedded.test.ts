@@ -127,6 +127,17 @@ describe('loamwave run (embedded)', () => {
     expect(r.stderr).not.toMatch(/\u001b|\r/);
   });
 
+  it('when run with --no-report then the tables are written and no report.html is', () => {
+    const sweep = join(scratch, 'inland-noreport.yaml');
+    writeFileSync(sweep, sweepYaml('inland-noreport', 8, [0.001, 0.01]));
+    const out = join(scratch, 'out-noreport');
+    const r = cli(['run', sweep, '--out', out, '--no-report'], scratch);
+    expect(r.code, r.stderr).toBe(0);
+    for (const f of ['runs.parquet', 'fields', 'convergence.parquet']) expect(existsSync(join(out, f)), f).toBe(true);
+    expect(existsSync(join(out, 'report.html'))).toBe(false);
+    expect(r.stderr).not.toContain('report.html');
+  });
+
   it.each<[string, (dir: string) => string, RegExp]>([
     ['the sweep file does not exist', (dir) => join(dir, 'missing.yaml'), /missing\.yaml: cannot read the sweep file \(no such file\)/],
     [

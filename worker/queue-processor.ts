@@ -6,7 +6,7 @@ import { UnrecoverableError, WaitingError, type SandboxedJob } from 'bullmq';
 import { workerData } from 'node:worker_threads';
 import type { JobResult } from '../schemas/result.js';
 import { CaseFailure } from './case-failure.js';
-import { QueueJobDataSchema } from './queue-payload.js';
+import { QueueJobDataSchema } from '../schemas/queue-payload.js';
 import { defaultMemoryCapBytes, runCase } from './run-case.js';
 import { PROGRESS_INTERVAL_MS } from './thread-protocol.js';
 

@@ -5,7 +5,7 @@ import { Worker, type Job } from 'bullmq';
 import { Redis } from 'ioredis';
 import { fileURLToPath } from 'node:url';
 import type { ProcessorThreadData } from './queue-processor.js';
-import { registryKey } from './queue-payload.js';
+import { registryKey } from '../schemas/queue-names.js';
 import type { RedisSettings } from './redis-connection.js';
 
 export interface QueueWorkerOptions {

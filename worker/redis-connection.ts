@@ -4,7 +4,7 @@
 import { readFileSync } from 'node:fs';
 import type { Redis } from 'ioredis';
 import type { ConnectionOptions as TlsOptions } from 'node:tls';
-import { UserError } from '../schemas/errors.js';
+import { ServiceUnreachableError, UserError } from '../schemas/errors.js';
 
 export interface RedisTarget {
   /** `redis://[user:password@]host[:port][/db]` or `rediss://…` for TLS. */
@@ -111,4 +111,28 @@ function configValue(reply: unknown): string | undefined {
   if (Array.isArray(reply)) return reply.length >= 2 ? String(reply[1]) : undefined;
   if (reply && typeof reply === 'object') return Object.values(reply as Record<string, unknown>).map(String)[0];
   return undefined;
+}
+
+/**
+ * Connect `client` (created with `lazyConnect: true`) without retrying, so an absent server fails at once with the
+ * cause (ECONNREFUSED, WRONGPASS…) in one line naming the URL, and return the server's warnings. The 'error' event
+ * carries the cause; connect() itself only says the connection closed. The caller sets the client's retry
+ * strategy for the rest of its life after this returns.
+ */
+export async function probeRedis(client: Redis, url: string, option = '--redis'): Promise<string[]> {
+  const retry = client.options.retryStrategy;
+  client.options.retryStrategy = () => null;
+  let cause: string | undefined;
+  const onError = (e: Error) => (cause ??= e.message);
+  client.on('error', onError);
+  try {
+    await client.connect();
+  } catch (e) {
+    const why = cause ?? (e as Error).message;
+    throw new ServiceUnreachableError(`${option}: cannot reach ${redactedUrl(url)} (${why}); start Redis or correct the URL`, 'loamwave.redis.unreachable');
+  } finally {
+    client.off('error', onError);
+    client.options.retryStrategy = retry;
+  }
+  return redisServerWarnings(client);
 }

@@ -1,4 +1,4 @@
-// Reads a sweep's output folder for the report: the sweep copy, runs.parquet, the Hive-partitioned fields/ table
+// Reads a sweep's output folder for the analysis and the report: the sweep copy, runs.parquet, the Hive-partitioned fields/ table
 // and, when present, convergence.parquet and sensitivity.parquet, through DuckDB. Missing pieces the user can
 // supply become one-line UserErrors naming the file and what to do.
 import { existsSync, statSync } from 'node:fs';
@@ -9,10 +9,37 @@ import { UserError } from '../../schemas/errors.js';
 import { ConvergenceRowSchema, type ConvergenceRow } from './grid-convergence.js';
 import { SensitivityRowSchema, type SensitivityRow } from './sensitivity-table.js';
 import { loadSweep } from '../sweep/file.js';
-import type { Cell } from '../report/data.js';
-import type { FieldRecord, FolderTables, RunRecord } from '../report/assembly.js';
+import type { Sweep } from '../../schemas/sweep.js';
 
 const CODE = 'loamwave.report.input';
+
+/** One cell of a table as read: DuckDB's BIGINTs already made numbers. */
+export const CellSchema = z.union([z.number(), z.string(), z.boolean(), z.null()]);
+export type Cell = z.infer<typeof CellSchema>;
+
+/** One row of runs.parquet as read (BIGINTs already made numbers). */
+export type RunRecord = Readonly<Record<string, Cell>>;
+
+/** One row of fields/ as the report needs it. */
+export interface FieldRecord {
+  job_id: string;
+  range_m: number;
+  height_m: number;
+  ez_db_uv_per_m: number;
+  ez_phase_deg: number;
+}
+
+export interface FolderTables {
+  sweep: Sweep;
+  sweepFileName: string | null;
+  runColumns: readonly string[];
+  runs: readonly RunRecord[];
+  fields: readonly FieldRecord[];
+  /** convergence.parquet and sensitivity.parquet when the folder has them (null: compute here). */
+  convergence: ConvergenceRow[] | null;
+  sensitivity: SensitivityRow[] | null;
+}
+
 
 /** Names of the files the report reads (README, "Outputs"). */
 export const REPORT_INPUTS = {

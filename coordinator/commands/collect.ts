@@ -3,9 +3,8 @@
 // collecting until the sweep is complete. When it is, the outputs are written.
 import type { Command } from 'commander';
 import { addQueueOptions, type QueueCliOptions } from './options.js';
-import { queueSession, withQueue } from '../queue/session.js';
-import { writeSweepOutputs } from '../ledger/sweep-run.js';
-import { EXIT_STOPPED } from '../dispatch/stop-signals.js';
+import { ExitCode } from '../../schemas/exit-codes.js';
+import { finishOutputs } from './finish-outputs.js';
 
 interface CollectCliOptions extends QueueCliOptions {
   out?: string;
@@ -25,9 +24,10 @@ export function registerCollect(program: Command): void {
     .option('--json', 'print what was collected as JSON on stdout');
   addQueueOptions(cmd, { required: true, what: 'the queue to collect from' });
   cmd.action(async (sweepPath: string, opts: CollectCliOptions) => {
+    const { queueSession, withQueue } = await import('../queue/session.js');
     await withQueue(sweepPath, opts, async (run, handles) => {
       const r = await queueSession(run, handles, { submit: false, follow: opts.follow === true, progress: true });
-      if (r.complete) await writeSweepOutputs(run, opts.report !== false);
+      if (r.complete) await finishOutputs(run, opts.report !== false);
       const counts = run.ledger.counts();
       if (opts.json) {
         process.stdout.write(
@@ -38,7 +38,7 @@ export function registerCollect(program: Command): void {
           `collected ${r.collected.committed} result(s) and ${r.collected.failed} failure(s); ${counts.done} of ${run.jobs.length} done${r.complete ? ', outputs written' : ''}\n`,
         );
       }
-      if (r.stopped) process.exitCode = EXIT_STOPPED;
+      if (r.stopped) process.exitCode = ExitCode.stopped;
     });
   });
 }

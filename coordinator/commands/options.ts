@@ -1,12 +1,12 @@
 // Command-line options shared by the sweep commands: the Redis connection and key prefix, and whole-number
 // options with their bounds. One definition each, so `run`, `submit`, `worker`, `collect` and `status` agree.
 import { InvalidArgumentError, Option, type Command } from 'commander';
-import { DEFAULT_QUEUE_PREFIX } from '../../worker/queue-payload.js';
+import { DEFAULT_QUEUE_PREFIX } from '../../schemas/queue-names.js';
 
 /** Environment variable a worker reads its Redis URL from when `--redis` is not given (handy in job arrays). */
 export const REDIS_URL_ENV = 'LOAMWAVE_REDIS_URL';
 
-/** Parser for an integer option within [min, max]; commander prints its message as one line and exits 1. */
+/** Parser for an integer option within [min, max]; commander prints its message as one line (exit code 2, cli.ts). */
 export function integerOption(min: number, max = Number.MAX_SAFE_INTEGER): (value: string) => number {
   return (value: string) => {
     const n = Number(value);
@@ -15,6 +15,25 @@ export function integerOption(min: number, max = Number.MAX_SAFE_INTEGER): (valu
     }
     return n;
   };
+}
+
+/**
+ * `--max-memory-mib <n>`, spelt the same on every command: the largest memory one case may need, MiB (2^20 bytes).
+ * `whose` says what the default divides this machine's memory by.
+ */
+export function memoryOption(whose: string): Option {
+  return new Option('--max-memory-mib <n>', `largest memory one case may need, MiB (default: 70 % of this machine's memory${whose})`).argParser(
+    (value: string) => {
+      const n = Number(value);
+      if (value.trim() === '' || !Number.isFinite(n) || n <= 0) throw new InvalidArgumentError('expected a number of MiB > 0');
+      return n;
+    },
+  );
+}
+
+/** Bytes of a `--max-memory-mib` value. */
+export function mibToBytes(mib: number): number {
+  return mib * 2 ** 20;
 }
 
 export interface QueueCliOptions {

@@ -1,17 +1,12 @@
 // `loamwave plan SWEEP`: validate a sweep, count its jobs and duplicates, and estimate cells, steps, memory,
 // core-hours and the wall time on N workers before anything runs; refuse a sweep whose largest job exceeds the
-// memory cap. Also registers the sweep file's JSON Schema for `loamwave schema sweep`.
+// memory cap.
 import { availableParallelism } from 'node:os';
 import { basename } from 'node:path';
-import type { Command } from 'commander';
+import { Option, type Command } from 'commander';
 import { UserError } from '../../schemas/errors.js';
-import { sweepJsonSchema } from '../../schemas/sweep.js';
-import { defaultMemoryCapBytes } from '../../worker/run-case.js';
-import { kernelSpeed } from '../sweep/kernel-speed.js';
-import { expandSweepDetailed } from '../sweep/expand.js';
-import { loadSweep } from '../sweep/file.js';
-import { describeJob, planSweep, type SweepPlan } from '../sweep/plan.js';
-import { addSchema } from './schema.js';
+import type { SweepPlan } from '../sweep/plan.js';
+import { integerOption, memoryOption, mibToBytes } from './options.js';
 
 const GIB = 1024 ** 3;
 /** Jobs listed in the readable table; `--json` lists all. */
@@ -19,24 +14,30 @@ const TABLE_JOBS = 12;
 
 interface PlanOptions {
   json?: boolean;
-  workers?: string;
-  maxMemoryGib?: string;
+  workers?: number;
+  maxMemoryMib?: number;
   remeasure?: boolean;
 }
 
 export function registerPlan(program: Command): void {
-  addSchema('sweep', sweepJsonSchema);
   program
     .command('plan')
     .description('validate a sweep and estimate its jobs, memory, core-hours and wall time before running it')
     .argument('<sweep>', 'sweep file (.yaml or .json)')
     .option('--json', 'print the plan as JSON (every job listed)')
-    .option('--workers <n>', 'workers the sweep will run on, for the wall-time estimate (default: cores here)')
-    .option('--max-memory-gib <g>', 'largest memory one job may need, GiB (default: 70 % of this machine\'s memory)')
+    .addOption(new Option('--workers <n>', 'workers the sweep will run on, for the wall-time estimate (default: cores here)').argParser(integerOption(1, 1_000_000)))
+    .addOption(memoryOption(''))
     .option('--remeasure', 'measure the solver speed on this machine again instead of using the cached value')
-    .action((sweepPath: string, opts: PlanOptions) => {
-      const workers = parseWorkers(opts.workers);
-      const capBytes = opts.maxMemoryGib === undefined ? defaultMemoryCapBytes(1) : parseGib(opts.maxMemoryGib) * GIB;
+    .action(async (sweepPath: string, opts: PlanOptions) => {
+      const [{ defaultMemoryCapBytes }, { kernelSpeed }, { expandSweepDetailed }, { loadSweep }, { describeJob, planSweep }] = await Promise.all([
+        import('../../worker/run-case.js'),
+        import('../sweep/kernel-speed.js'),
+        import('../sweep/expand.js'),
+        import('../sweep/file.js'),
+        import('../sweep/plan.js'),
+      ]);
+      const workers = opts.workers ?? availableParallelism();
+      const capBytes = opts.maxMemoryMib === undefined ? defaultMemoryCapBytes(1) : mibToBytes(opts.maxMemoryMib);
       const { sweep, path } = loadSweep(sweepPath);
       const source = basename(path);
       const expansion = expandSweepDetailed(sweep, source);
@@ -53,30 +54,17 @@ export function registerPlan(program: Command): void {
         };
         process.stdout.write(JSON.stringify(out, null, 2) + '\n');
       } else {
-        process.stdout.write(renderPlan(sweep.name, sweep.design.kind, sweep.resolution_axis, plan, speed.cached));
+        process.stdout.write(renderPlan(sweep.name, sweep.design.kind, sweep.resolution_axis, plan, speed.cached, describeJob));
       }
       if (!plan.fits) {
         const big = plan.per_job.find((p) => p.index === plan.largest_memory_job)!;
         throw new UserError(
           `${source}: ${describeJob(big)} needs ${gib(big.memory_bytes)} GiB, more than the cap of ${gib(capBytes)} GiB; ` +
-            'coarsen grid.cells_per_wavelength, shrink the domain, or raise --max-memory-gib',
+            'coarsen grid.cells_per_wavelength, shrink the domain, or raise --max-memory-mib',
           'loamwave.plan.too_large',
         );
       }
     });
-}
-
-function parseWorkers(text: string | undefined): number {
-  if (text === undefined) return availableParallelism();
-  const n = Number(text);
-  if (!Number.isInteger(n) || n < 1) throw new UserError(`plan: --workers must be a whole number >= 1 (got "${text}")`);
-  return n;
-}
-
-function parseGib(text: string): number {
-  const g = Number(text);
-  if (!Number.isFinite(g) || g <= 0) throw new UserError(`plan: --max-memory-gib must be a number > 0, in GiB (got "${text}")`);
-  return g;
 }
 
 function gib(bytes: number): string {
@@ -105,7 +93,14 @@ export function duration(hours: number): string {
   return `${h} h ${String(Math.round((s - h * 3600) / 60)).padStart(2, '0')} min`;
 }
 
-function renderPlan(name: string, design: string, axis: string | undefined, p: SweepPlan, cached: boolean): string {
+function renderPlan(
+  name: string,
+  design: string,
+  axis: string | undefined,
+  p: SweepPlan,
+  cached: boolean,
+  describeJob: (j: SweepPlan['per_job'][number]) => string,
+): string {
   const lines: string[] = [];
   const dup = p.duplicates > 0 ? `, ${p.duplicates} duplicate point(s) collapsed into earlier jobs` : ', no duplicates';
   lines.push(`sweep ${name}: ${p.design_points} design point(s), ${p.jobs} job(s)${dup}`);

@@ -5,24 +5,19 @@ import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { Option, type Command } from 'commander';
-import { LocalDispatch, type LocalDispatchSummary } from '../dispatch/local-pool.js';
-import { ProgressBar } from '../dispatch/progress-bar.js';
-import { addQueueOptions, integerOption, type QueueCliOptions } from './options.js';
-import { queueSession, withQueue } from '../queue/session.js';
-import { longestFirst, openSweepRun, writeSweepOutputs, type SweepRun } from '../ledger/sweep-run.js';
-import { EXIT_STOPPED, onStopSignals } from '../dispatch/stop-signals.js';
-import { SweepProgress } from '../dispatch/progress.js';
+import { ExitCode } from '../../schemas/exit-codes.js';
+import type { LocalDispatchSummary } from '../dispatch/local-pool.js';
+import type { SweepRun } from '../ledger/sweep-run.js';
+import { addQueueOptions, integerOption, memoryOption, mibToBytes, type QueueCliOptions } from './options.js';
+import { finishOutputs } from './finish-outputs.js';
 
 interface RunCliOptions extends QueueCliOptions {
   out?: string;
   workers: number;
-  maxMemoryMb?: number;
+  maxMemoryMib?: number;
   json?: boolean;
   report?: boolean;
 }
-
-/** Exit code of a sweep that finished with some jobs failed (outputs are still written). */
-export const EXIT_SOME_FAILED = 1;
 
 export function registerRun(program: Command): void {
   const cmd = program
@@ -35,19 +30,21 @@ export function registerRun(program: Command): void {
         .argParser(integerOption(1, 1024))
         .default(availableParallelism()),
     )
-    .addOption(new Option('--max-memory-mb <n>', 'largest memory one case may need, MiB (default: 70 % of RAM / workers)').argParser(integerOption(1)))
+    .addOption(memoryOption(' / workers'))
     .option('--no-report', 'write the tables but not report.html')
     .option('--json', 'print a summary as JSON on stdout');
   addQueueOptions(cmd, { required: false, what: 'submit to this queue and collect what the workers return' });
   cmd.action(async (sweepPath: string, opts: RunCliOptions) => {
     const started = performance.now();
     if (opts.redis) {
+      const { queueSession, withQueue } = await import('../queue/session.js');
       await withQueue(sweepPath, opts, async (run, handles) => {
         const r = await queueSession(run, handles, { submit: true, follow: true, progress: true });
         await finish(run, { stopped: r.stopped, solvedNow: r.collected.committed, solverCalls: null }, opts, started);
       });
       return;
     }
+    const { openSweepRun } = await import('../ledger/sweep-run.js');
     const run = openSweepRun(sweepPath, opts.out);
     try {
       await finish(run, await runEmbedded(run, opts), opts, started);
@@ -62,12 +59,12 @@ async function finish(run: SweepRun, outcome: RunOutcome, opts: RunCliOptions, s
   const counts = run.ledger.counts();
   if (outcome.stopped) {
     process.stderr.write(`stopped: ${counts.done} of ${run.jobs.length} job(s) done; run the same command again to go on\n`);
-    process.exitCode = EXIT_STOPPED;
+    process.exitCode = ExitCode.stopped;
   } else {
-    await writeSweepOutputs(run, opts.report !== false);
+    await finishOutputs(run, opts.report !== false);
     if (counts.failed > 0) {
       process.stderr.write(`error: ${counts.failed} job(s) failed; their reasons are in the error column of runs.parquet (and \`loamwave status\`)\n`);
-      process.exitCode = EXIT_SOME_FAILED;
+      process.exitCode = ExitCode.jobsFailed;
     }
     if (!opts.json) {
       // one closing line on stderr (data stays on stdout, and only with --json): where to look next
@@ -100,17 +97,24 @@ interface RunOutcome {
 }
 
 async function runEmbedded(run: SweepRun, opts: RunCliOptions): Promise<RunOutcome> {
+  const [{ LocalDispatch }, { ProgressBar }, { SweepProgress }, { onStopSignals }, { longestFirst }] = await Promise.all([
+    import('../dispatch/local-pool.js'),
+    import('../dispatch/progress-bar.js'),
+    import('../dispatch/progress.js'),
+    import('../dispatch/stop-signals.js'),
+    import('../ledger/sweep-run.js'),
+  ]);
   const { ledger } = run;
   // The local queue died with any earlier process: whatever was running or queued is pending again.
   ledger.resetInterrupted({ includeQueued: true });
   const todo = longestFirst(ledger.list('pending'), run.costById);
   const progress = new SweepProgress(ledger, run.costById);
   const bar = new ProgressBar({ stream: process.stderr });
-  const dispatch: LocalDispatch = new LocalDispatch({
+  const dispatch = new LocalDispatch({
     ledger,
     jobs: todo,
     threads: opts.workers,
-    maxMemoryBytes: opts.maxMemoryMb === undefined ? undefined : opts.maxMemoryMb * 2 ** 20,
+    maxMemoryBytes: opts.maxMemoryMib === undefined ? undefined : mibToBytes(opts.maxMemoryMib),
     onFinished: (id) => progress.finished(id),
     onChange: (running) => bar.update(progress.state(running)),
   });

@@ -1,11 +1,8 @@
 // `loamwave solve CASE [--json]`: run one case and print the result (a table, or the result contract as JSON).
 import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
-import { parseCase } from '../../schemas/case.js';
 import { UserError } from '../../schemas/errors.js';
 import type { JobResult } from '../../schemas/result.js';
-import { solve } from '../../solver/index.js';
-import { jobIdFor } from '../sweep/job-id.js';
 
 export function readJsonFile(path: string): unknown {
   let text: string;
@@ -50,7 +47,12 @@ export function registerSolve(program: Command): void {
     .description('run one case file and print field strength and phase at its receivers')
     .argument('<case>', 'case file (JSON); `loamwave schema case` prints its schema')
     .option('--json', 'print the result as JSON (the result contract)')
-    .action((path: string, opts: { json?: boolean }) => {
+    .action(async (path: string, opts: { json?: boolean }) => {
+      const [{ parseCase }, { solve }, { jobIdFor }] = await Promise.all([
+        import('../../schemas/case.js'),
+        import('../../solver/index.js'),
+        import('../sweep/job-id.js'),
+      ]);
       const c = parseCase(readJsonFile(path), path);
       const t0 = process.hrtime.bigint();
       const r = solve(c);

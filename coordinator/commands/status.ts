@@ -5,11 +5,8 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Command } from 'commander';
 import { UserError } from '../../schemas/errors.js';
-import { Ledger, LEDGER_FILE, type LedgerJob } from '../ledger/ledger.js';
-import { formatDuration } from '../dispatch/progress-bar.js';
+import type { LedgerJob } from '../ledger/ledger.js';
 import { addQueueOptions, type QueueCliOptions } from './options.js';
-import { QueueHandles, queueTarget } from '../queue/target.js';
-import { openExistingSweep } from '../ledger/sweep-run.js';
 
 interface StatusCliOptions extends QueueCliOptions {
   out?: string;
@@ -40,6 +37,11 @@ export function registerStatus(program: Command): void {
     .option('--json', 'print the status as JSON on stdout');
   addQueueOptions(cmd, { required: false, what: 'also show what the sweep\'s queue holds' });
   cmd.action(async (sweepPath: string, opts: StatusCliOptions) => {
+    const [{ Ledger, LEDGER_FILE }, { openExistingSweep }, { formatDuration }] = await Promise.all([
+      import('../ledger/ledger.js'),
+      import('../ledger/sweep-run.js'),
+      import('../dispatch/progress-bar.js'),
+    ]);
     const { sweep, outDir } = openExistingSweep(sweepPath, opts.out);
     if (!existsSync(join(outDir, LEDGER_FILE))) {
       throw new UserError(`${sweep.name}: no ledger in ${outDir}; run or submit the sweep first (or give --out DIR)`);
@@ -57,6 +59,7 @@ export function registerStatus(program: Command): void {
       ledger.close();
     }
     if (opts.redis) {
+      const { QueueHandles, queueTarget } = await import('../queue/target.js');
       const target = queueTarget({ redis: opts.redis, redisCa: opts.redisCa, prefix: opts.prefix }, sweep.name);
       const { handles, warnings } = await QueueHandles.open(target);
       try {

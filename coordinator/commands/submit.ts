@@ -3,8 +3,6 @@
 // in the ledger or already queued are not added again.
 import type { Command } from 'commander';
 import { addQueueOptions, type QueueCliOptions } from './options.js';
-import { submitSweep } from '../queue/submit.js';
-import { withQueue } from '../queue/session.js';
 
 interface SubmitCliOptions extends QueueCliOptions {
   out?: string;
@@ -20,6 +18,7 @@ export function registerSubmit(program: Command): void {
     .option('--json', 'print what was queued as JSON on stdout');
   addQueueOptions(cmd, { required: true, what: 'the queue to submit to' });
   cmd.action(async (sweepPath: string, opts: SubmitCliOptions) => {
+    const [{ submitSweep }, { withQueue }] = await Promise.all([import('../queue/submit.js'), import('../queue/session.js')]);
     await withQueue(sweepPath, opts, async (run, handles) => {
       const s = await submitSweep(handles, run.ledger, run.costById);
       if (opts.json) {

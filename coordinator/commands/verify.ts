@@ -1,7 +1,8 @@
 // `loamwave verify [--json]`: run the published-reference checks on small cases and print a table;
 // exit code 1 when any check fails.
 import type { Command } from 'commander';
-import { referenceChecks, type CheckOutcome } from '../../solver/verify/index.js';
+import type { CheckOutcome } from '../../solver/verify/index.js';
+import { ExitCode } from '../../schemas/exit-codes.js';
 
 export function registerVerify(program: Command): void {
   program
@@ -9,7 +10,8 @@ export function registerVerify(program: Command): void {
     .description('run the solver against published references (small cases) and print check, source, expected, got, tolerance, pass')
     .option('--json', 'print the outcomes as JSON')
     .option('--only <ids>', 'comma-separated check ids to run')
-    .action((opts: { json?: boolean; only?: string }) => {
+    .action(async (opts: { json?: boolean; only?: string }) => {
+      const { referenceChecks } = await import('../../solver/verify/index.js');
       const wanted = opts.only?.split(',').map((s) => s.trim());
       const outcomes: CheckOutcome[] = [];
       for (const check of referenceChecks()) {
@@ -26,6 +28,6 @@ export function registerVerify(program: Command): void {
         }
         process.stdout.write(`${outcomes.length - failed} passed, ${failed} failed\n`);
       }
-      if (failed > 0) process.exitCode = 1;
+      if (failed > 0) process.exitCode = ExitCode.jobsFailed;
     });
 }

@@ -3,12 +3,8 @@
 // finish and return their results; a second cancels them and hands their jobs back to the queue.
 import { Option, type Command } from 'commander';
 import { UserError } from '../../schemas/errors.js';
-import { QueueWorker } from '../../worker/queue-worker.js';
-import { redactedUrl, redisOptions, redisServerWarnings } from '../../worker/redis-connection.js';
-import { defaultMemoryCapBytes } from '../../worker/run-case.js';
-import { Redis } from 'ioredis';
-import { addQueueOptions, integerOption, REDIS_URL_ENV, type QueueCliOptions } from './options.js';
-import { queueNameFor } from '../../worker/queue-payload.js';
+import { queueNameFor } from '../../schemas/queue-names.js';
+import { addQueueOptions, integerOption, memoryOption, mibToBytes, REDIS_URL_ENV, type QueueCliOptions } from './options.js';
 
 interface WorkerCliOptions extends QueueCliOptions {
   concurrency: number;
@@ -16,7 +12,7 @@ interface WorkerCliOptions extends QueueCliOptions {
   stalledIntervalMs: number;
   maxStalled: number;
   sweep?: string[];
-  maxMemoryMb?: number;
+  maxMemoryMib?: number;
 }
 
 export function registerWorker(program: Command): void {
@@ -28,22 +24,22 @@ export function registerWorker(program: Command): void {
     .addOption(new Option('--stalled-interval-ms <n>', 'how often to look for jobs whose worker died, ms').argParser(integerOption(500)).default(30_000))
     .addOption(new Option('--max-stalled <n>', 'times a job may lose its worker before it fails').argParser(integerOption(0, 100)).default(2))
     .addOption(new Option('--sweep <name...>', 'serve only these sweeps (default: every sweep submitted to this Redis)'))
-    .addOption(new Option('--max-memory-mb <n>', 'largest memory one case may need, MiB (default: 70 % of RAM / concurrency)').argParser(integerOption(1)));
+    .addOption(memoryOption(' / concurrency'));
   addQueueOptions(cmd, { required: true, fromEnv: true, what: 'the queue to work for' });
   cmd.action(async (opts: WorkerCliOptions) => {
     if (!opts.redis) throw new UserError(`worker: give --redis URL (or set ${REDIS_URL_ENV}), e.g. --redis redis://127.0.0.1:6379`);
+    const [{ QueueWorker }, { probeRedis, redactedUrl, redisOptions }, { defaultMemoryCapBytes }, { Redis }] = await Promise.all([
+      import('../../worker/queue-worker.js'),
+      import('../../worker/redis-connection.js'),
+      import('../../worker/run-case.js'),
+      import('ioredis'),
+    ]);
     const connection = redisOptions({ url: opts.redis, caFile: opts.redisCa });
     const log = (line: string) => process.stderr.write(`${new Date().toISOString()} ${line}\n`);
 
-    const probe = new Redis({ ...connection, lazyConnect: true, retryStrategy: () => null });
-    let cause: string | undefined;
-    probe.on('error', (e: Error) => (cause ??= e.message));
+    const probe = new Redis({ ...connection, lazyConnect: true });
     try {
-      await probe.connect();
-      for (const w of await redisServerWarnings(probe)) log(`warning: ${w}`);
-    } catch (e) {
-      const why = cause ?? (e as Error).message;
-      throw new UserError(`--redis: cannot reach ${redactedUrl(opts.redis)} (${why}); start Redis or correct the URL`, 'loamwave.redis.unreachable', 3);
+      for (const w of await probeRedis(probe, opts.redis)) log(`warning: ${w}`);
     } finally {
       probe.disconnect();
     }
@@ -56,7 +52,7 @@ export function registerWorker(program: Command): void {
       stalledIntervalMs: opts.stalledIntervalMs,
       maxStalledCount: opts.maxStalled,
       queues: opts.sweep?.map(queueNameFor),
-      maxMemoryBytes: opts.maxMemoryMb === undefined ? defaultMemoryCapBytes(opts.concurrency) : opts.maxMemoryMb * 2 ** 20,
+      maxMemoryBytes: opts.maxMemoryMib === undefined ? defaultMemoryCapBytes(opts.concurrency) : mibToBytes(opts.maxMemoryMib),
       log,
     });
     let signals = 0;

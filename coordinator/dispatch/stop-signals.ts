@@ -1,8 +1,5 @@
 // Ctrl-C and SIGTERM for long-running commands: the first signal asks for a clean stop, the second for an urgent
-// one; the command decides what each means and exits 130 (128 + SIGINT, the shell convention) when stopped.
-
-/** Exit code of a command stopped by a signal (128 + 2, as shells report Ctrl-C). */
-export const EXIT_STOPPED = 130;
+// one; the command decides what each means and exits with ExitCode.stopped (schemas/exit-codes.ts) when stopped.
 
 /** Listen for SIGINT and SIGTERM until the returned function is called. */
 export function onStopSignals(first: (signal: string) => void, second: (signal: string) => void): () => void {

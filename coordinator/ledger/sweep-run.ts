@@ -1,12 +1,10 @@
 // What every sweep command does first: read and validate the sweep, expand it (every case checked before any
 // file is written), open the ledger in the output folder and add the jobs it does not hold yet, and estimate
-// each job's cost (for longest-first order, queue priorities and a cost-weighted ETA); and at the end, the outputs.
+// each job's cost (for longest-first order, queue priorities and a cost-weighted ETA).
 import { basename, join, resolve } from 'node:path';
 import type { Sweep } from '../../schemas/sweep.js';
 import { estimateCost } from '../../solver/index.js';
-import { writeReport } from '../commands/report.js';
 import { Ledger, type LedgerJob } from './ledger.js';
-import { writeOutputs } from '../outputs/tables.js';
 import { loadSweep } from '../sweep/file.js';
 import { expandSweep, type ExpandedJob } from '../sweep/expand.js';
 
@@ -68,19 +66,4 @@ export function openExistingSweep(sweepPath: string, outOption?: string): { swee
 /** Jobs ordered longest first by estimated cost; ties keep expansion order. */
 export function longestFirst(jobs: readonly LedgerJob[], costById: ReadonlyMap<string, number>): LedgerJob[] {
   return [...jobs].sort((a, b) => (costById.get(b.job_id) ?? 0) - (costById.get(a.job_id) ?? 0) || a.index - b.index);
-}
-
-/**
- * Write the tables (writeOutputs) and, unless told not to, report.html. A report that cannot be written is one
- * error line and exit code 1, not a lost run: the tables are in place and `loamwave report DIR` can be rerun.
- */
-export async function writeSweepOutputs(run: SweepRun, withReport: boolean): Promise<void> {
-  await writeOutputs(run.ledger, run.sweep, run.text, run.outDir, { jobs: run.jobs });
-  if (!withReport) return;
-  try {
-    await writeReport(run.outDir);
-  } catch (e) {
-    process.stderr.write(`error: report.html not written (${(e as Error).message}); the tables are written, run \`loamwave report ${run.outDir}\` to retry\n`);
-    process.exitCode = 1;
-  }
 }

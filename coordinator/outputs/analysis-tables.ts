@@ -1,14 +1,14 @@
 // convergence.parquet and sensitivity.parquet: the analysis tables of a sweep, computed from the runs
 // and fields tables just written (read back through the report's folder reader, so the files and the report agree),
-// with Parquet columns derived from the row schemas, which are the contract. Also the report page, from the same tables.
+// with Parquet columns derived from the row schemas, which are the contract. The report page is not written here:
+// the command layer writes it, once, from these same tables.
 import { renameSync } from 'node:fs';
 import { join } from 'node:path';
 import { z } from 'zod';
 import { ConvergenceRowSchema } from '../analysis/grid-convergence.js';
 import { SensitivityRowSchema } from '../analysis/sensitivity-table.js';
-import { writeReport } from '../commands/report.js';
 import { ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
-import { computeConvergence, computeSensitivity } from '../report/assembly.js';
+import { computeConvergence, computeSensitivity } from '../analysis/compute-tables.js';
 import { readReportFolder } from '../analysis/read-tables.js';
 import { SOLVER_VERSION } from '../../solver/version.js';
 
@@ -48,13 +48,11 @@ export async function writeRowTable(path: string, schema: z.ZodObject, rows: rea
   return rows.length;
 }
 
-export const ANALYSIS_FILES = { convergence: 'convergence.parquet', sensitivity: 'sensitivity.parquet', report: 'report.html' } as const;
+export const ANALYSIS_FILES = { convergence: 'convergence.parquet', sensitivity: 'sensitivity.parquet' } as const;
 
 /**
  * Compute convergence.parquet (and sensitivity.parquet when `sensitivity` is set) from the tables published in
- * `dir` (runs.parquet, fields/ and the sweep copy), write them under `stagingDir` and rename them into `dir`, then
- * write report.html (atomically, by the report's own writer) from all of them. The report restores its notes on
- * how the sensitivity runs were sampled when it reads sensitivity.parquet back.
+ * `dir` (runs.parquet, fields/ and the sweep copy), write them under `stagingDir` and rename them into `dir`.
  */
 export async function writeAnalysisTables(
   dir: string,
@@ -71,6 +69,5 @@ export async function writeAnalysisTables(
   };
   renameSync(join(stagingDir, ANALYSIS_FILES.convergence), join(dir, ANALYSIS_FILES.convergence));
   if (counts.sensitivity !== null) renameSync(join(stagingDir, ANALYSIS_FILES.sensitivity), join(dir, ANALYSIS_FILES.sensitivity));
-  await writeReport(dir);
   return counts;
 }

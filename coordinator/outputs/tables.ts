@@ -1,6 +1,7 @@
 // Merges a sweep's ledger into its output folder: `runs.parquet` (one row per job), `fields/` (one row per job and
 // receiver, Hive-partitioned as `part=<n>` by blocks of jobs), a copy of the sweep file, then the analysis tables
-// (`convergence.parquet`, and `sensitivity.parquet` on request) and `report.html` computed from them. Everything is written
+// (`convergence.parquet`, and `sensitivity.parquet` on request) computed from them (report.html is the command
+// layer's, written after this from the same tables). Everything is written
 // under a staging folder and renamed into place at the end, so a crash never leaves half a table; rows stream
 // from the ledger, so memory is bounded by a row group, not by the sweep.
 import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
@@ -19,7 +20,7 @@ export interface OutputOptions {
   readonly fieldRowsPerFile?: number;
   /** Rows per Parquet row group (the memory bound). @defaultValue 8192 */
   readonly rowGroupRows?: number;
-  /** Also write convergence.parquet and report.html. @defaultValue true */
+  /** Also write convergence.parquet. @defaultValue true */
   readonly analysis?: boolean;
   /** Also write sensitivity.parquet (needs `analysis`). @defaultValue true */
   readonly sensitivityTable?: boolean;
@@ -41,7 +42,7 @@ export interface OutputSummary {
 }
 
 /** File names inside the output folder. */
-export const OUTPUT_FILES = { runs: 'runs.parquet', fields: 'fields', sweep: 'sweep' } as const;
+export const OUTPUT_FILES = { runs: 'runs.parquet', fields: 'fields', sweep: 'sweep', report: 'report.html' } as const;
 const STAGING_PREFIX = '.outputs-staging-';
 /** Default rows per fields file: about five seconds of parquetjs-lite writing here (~19 s per 10^6 rows × 10 columns). */
 const FIELD_ROWS_PER_FILE = 250_000;
@@ -170,9 +171,9 @@ export function sweepCopyName(sweepText: string): string {
 
 /**
  * Write runs.parquet, fields/ and the sweep copy for the jobs of `sweep` (jobs of other sweeps that share the
- * ledger are left out), then convergence.parquet and report.html from them. Each table is complete or absent:
- * written under a staging folder, then renamed; the analysis files of an earlier write are removed with the old
- * tables, so a failed analysis leaves no file describing other runs.
+ * ledger are left out), then convergence.parquet (and sensitivity.parquet) from them. Each table is complete or
+ * absent: written under a staging folder, then renamed; the analysis files and report.html of an earlier write are
+ * removed with the old tables, so no file describing other runs is left beside the new ones.
  */
 export async function writeOutputs(
   ledger: Ledger,
@@ -253,6 +254,7 @@ export async function writeOutputs(
     const otherCopy = sweepCopyName(sweepText).endsWith('.json') ? `${OUTPUT_FILES.sweep}.yaml` : `${OUTPUT_FILES.sweep}.json`;
     publish(staging, outDir, [OUTPUT_FILES.runs, sweepCopyName(sweepText)], OUTPUT_FILES.fields, [
       ...Object.values(ANALYSIS_FILES),
+      OUTPUT_FILES.report,
       otherCopy,
     ]);
     const summary: OutputSummary = {

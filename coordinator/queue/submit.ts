@@ -2,7 +2,7 @@
 // already in Redis in any state, is not added again. Priorities come from the estimated cost so that the longest
 // jobs start first; retries with exponential backoff cover crashes, never deterministic failures.
 import type { JobsOptions } from 'bullmq';
-import type { QueueJobData } from '../../worker/queue-payload.js';
+import type { QueueJobData } from '../../schemas/queue-payload.js';
 import type { Ledger, LedgerJob } from '../ledger/ledger.js';
 import type { QueueHandles } from './target.js';
 

@@ -4,8 +4,8 @@
 import { Queue, QueueEvents } from 'bullmq';
 import { Redis } from 'ioredis';
 import { UserError } from '../../schemas/errors.js';
-import { queueNameFor, registryKey } from '../../worker/queue-payload.js';
-import { redactedUrl, redisOptions, redisServerWarnings, type RedisSettings } from '../../worker/redis-connection.js';
+import { queueNameFor, registryKey } from '../../schemas/queue-names.js';
+import { probeRedis, redactedUrl, redisOptions, type RedisSettings } from '../../worker/redis-connection.js';
 
 export interface QueueTarget {
   readonly url: string;
@@ -44,21 +44,15 @@ export class QueueHandles {
    */
   static async open(target: QueueTarget): Promise<{ handles: QueueHandles; warnings: string[] }> {
     const h = new QueueHandles(target);
-    // Fail fast instead of retrying forever when the server is not there.
-    h.client.options.retryStrategy = () => null;
-    // The 'error' event carries the cause (ECONNREFUSED, WRONGPASS…); connect() itself only says the connection closed.
-    let cause: string | undefined;
-    h.client.on('error', (e: Error) => (cause ??= e.message));
+    let warnings: string[];
     try {
-      await h.client.connect();
+      warnings = await probeRedis(h.client, target.url);
     } catch (e) {
       await h.close();
-      const why = cause ?? (e as Error).message;
-      throw new UserError(`--redis: cannot reach ${redactedUrl(target.url)} (${why}); start Redis or correct the URL`, 'loamwave.redis.unreachable', 3);
+      throw e;
     }
     // Connected: from now on ride out a Redis restart like the BullMQ connections do (ioredis' default backoff).
     h.client.options.retryStrategy = (times: number) => Math.min(times * 50, 2000);
-    const warnings = await redisServerWarnings(h.client);
     return { handles: h, warnings };
   }
 

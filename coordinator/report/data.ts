@@ -4,8 +4,8 @@ import { z } from 'zod';
 import { ConvergenceRowSchema } from '../analysis/grid-convergence.js';
 import { SensitivityRowSchema } from '../analysis/sensitivity-table.js';
 
-export const CellSchema = z.union([z.number(), z.string(), z.boolean(), z.null()]);
-export type Cell = z.infer<typeof CellSchema>;
+export { CellSchema, type Cell } from '../analysis/read-tables.js';
+import { CellSchema } from '../analysis/read-tables.js';
 
 export const VariedInputSchema = z.strictObject({
   /** Sweep path, e.g. `ground.segments[0].conductivity_s_per_m`. */

@@ -6,6 +6,7 @@ import { C0 } from '../../solver/constants.js';
 import type { ConvergenceRow } from '../analysis/grid-convergence.js';
 import type { SensitivityRow } from '../analysis/sensitivity-table.js';
 import type { FieldSeries, VariedInput } from './data.js';
+import { residualPhaseDeg } from '../analysis/residual-phase.js';
 
 /** One plot as the report embeds it. */
 export interface Plot {
@@ -28,29 +29,6 @@ const CONFIG = {
 
 /** Most runs drawn as lines in one field plot; beyond it an evenly spaced subset is drawn (and said so). */
 export const MAX_FIELD_LINES = 200;
-
-/** Wrap degrees into (−180, 180]. */
-function wrapDeg(deg: number): number {
-  const w = ((((deg + 180) % 360) + 360) % 360) - 180;
-  return w === -180 ? 180 : w;
-}
-
-/**
- * Phase of Ez relative to the free-space delay, unwrapped along range: φ + 360°·f·r/c (with e^{jωt}, propagation
- * alone gives −k·r; common practice in VLF phase work to show what is left, which varies slowly with range).
- */
-export function residualPhaseDeg(series: FieldSeries): Array<{ range_m: number; value: number }> {
-  const pts = [...series.points].sort((a, b) => a.range_m - b.range_m);
-  const out: Array<{ range_m: number; value: number }> = [];
-  let prev: number | undefined;
-  for (const p of pts) {
-    let v = wrapDeg(p.ez_phase_deg + (360 * series.frequency_hz * p.range_m) / C0);
-    if (prev !== undefined) v += 360 * Math.round((prev - v) / 360);
-    out.push({ range_m: p.range_m, value: v });
-    prev = v;
-  }
-  return out;
-}
 
 function evenlySpaced<T>(items: readonly T[], max: number): T[] {
   if (items.length <= max) return [...items];

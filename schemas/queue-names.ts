@@ -1,13 +1,5 @@
-// What travels through the queue: the job data a worker receives (the case itself, so workers need no shared
-// file system) and the key names both the submitting coordinator and the workers derive from a sweep name.
-import { z } from 'zod';
-
-/** Data of one queued job. The case is the validated case; the worker parses it again at its own edge. */
-export const QueueJobDataSchema = z.strictObject({
-  job_id: z.string().min(1),
-  case: z.unknown(),
-});
-export type QueueJobData = z.infer<typeof QueueJobDataSchema>;
+// The Redis key names the submitting coordinator and the workers both derive from a sweep name. Plain strings, no
+// schema library, so the command line can name its defaults without loading one.
 
 /** BullMQ key prefix used when none is given (`--prefix`). */
 export const DEFAULT_QUEUE_PREFIX = 'loamwave';
