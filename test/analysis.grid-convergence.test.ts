@@ -1,14 +1,7 @@
 // Grid convergence: Celik et al. 2008 worked example, behaviour flags, and the grouping of sweep runs.
 import { describe, expect, it } from 'vitest';
-import {
-  apparentOrder,
-  ConvergenceRowSchema,
-  convergenceTable,
-  describeGroup,
-  gridConvergence,
-  unwrapAgainst,
-  type ConvergenceRun,
-} from '../coordinator/analysis/grid-convergence.js';
+import { apparentOrder, convergenceTable, describeGroup, gridConvergence, unwrapAgainst, type ConvergenceRun } from '../coordinator/analysis/grid-convergence.js';
+import { ConvergenceRowSchema } from '../schemas/analysis-rows.js';
 
 // Celik, Ghia, Roache, Freitas, Coleman & Raad, "Procedure for estimation and reporting of uncertainty due to
 // discretization in CFD applications", J. Fluids Eng. 130(7), 078001, 2008, Table 1, first column (published):

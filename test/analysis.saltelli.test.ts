@@ -1,7 +1,7 @@
 // Saltelli design and Sobol' index estimators against analytic indices of published test functions.
 import { describe, expect, it } from 'vitest';
 import { saltelliDesign, saltelliIndices, saltelliRow, saltelliRows } from '../coordinator/analysis/saltelli.js';
-import { SensitivityRowSchema } from '../coordinator/analysis/sensitivity-table.js';
+import { SensitivityRowSchema } from '../schemas/analysis-rows.js';
 
 /** Ishigami & Homma 1990: f = sin x1 + a·sin²x2 + b·x3⁴·sin x1, x_i ~ U(−π, π). */
 function ishigami(u: ArrayLike<number>, a = 7, b = 0.1): number {

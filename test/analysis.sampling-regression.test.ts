@@ -3,7 +3,7 @@ import { describe, expect, it } from 'vitest';
 import { latinHypercube } from '../coordinator/sampling/latin-hypercube.js';
 import { elementaryEffectRows, elementaryEffects } from '../coordinator/analysis/morris.js';
 import { regressionRows, standardisedRegression } from '../coordinator/analysis/regression.js';
-import { SensitivityRowSchema } from '../coordinator/analysis/sensitivity-table.js';
+import { SensitivityRowSchema } from '../schemas/analysis-rows.js';
 
 describe('Latin hypercube', () => {
   it.each([

@@ -236,6 +236,9 @@ describe('outputs', () => {
     expect(conv.length).toBe(expected.length);
     conv.forEach((row, i) => {
       for (const [k, v] of Object.entries(expected[i])) expectSame(row[k], v, `convergence row ${i} ${k}`);
+      // dB and degrees have no natural zero: the relative errors of Celik et al. (2008) are null, the absolute stay.
+      expect([row.e_a21, row.e_ext21, row.gci_fine21]).toEqual([null, null, null]);
+      expect(row.abs_diff21).toBe(Math.abs((row.phi1 as number) - (row.phi2 as number)));
     });
     ledger.close();
   });

@@ -10,7 +10,7 @@ import { buildReportHtml, escapeHtml } from '../coordinator/report/html.js';
 import { fieldPlots, MAX_FIELD_LINES, renderSvg } from '../coordinator/report/plots.js';
 import { residualPhaseDeg } from '../coordinator/analysis/residual-phase.js';
 import { C0 } from '../solver/constants.js';
-import { checkReportPage, launchChromium, type Browser } from './report.page-check.js';
+import { checkReportPage, launchChromium, WINDOW_WIDTH_PX, type Browser } from './report.page-check.js';
 
 const OUT = resolve('test-output');
 
@@ -177,6 +177,10 @@ describe('report page', () => {
       expect(page.errors).toEqual([]);
       expect(page.requests).toEqual([]);
       expect(page.runRows).toBe(6);
+      // The verdict table, advice column included, fits the window without a horizontal scroll bar.
+      expect(page.convergenceRightPx).not.toBeNull();
+      expect(page.convergenceRightPx!).toBeLessThanOrEqual(WINDOW_WIDTH_PX);
+      expect(page.convergenceScrolls).toBe(false);
     });
   });
 });

@@ -22,11 +22,18 @@ export interface PageCheck {
   requests: string[];
   /** Text of the page's table rows in #runs. */
   runRows: number;
+  /** Right edge of the grid-convergence verdict table's last column, px (null without one), in a 1280 px window. */
+  convergenceRightPx: number | null;
+  /** Whether the verdict table's box needs a horizontal scroll bar to show all its columns. */
+  convergenceScrolls: boolean;
 }
+
+/** Width of the window the report must fit (a common laptop screen; common practice for report layouts). */
+export const WINDOW_WIDTH_PX = 1280;
 
 /** Load `file` and collect what rendered; optionally save a full-page screenshot. */
 export async function checkReportPage(browser: Browser, file: string, screenshot?: string): Promise<PageCheck> {
-  const page = await browser.newPage({ viewport: { width: 1280, height: 900 } });
+  const page = await browser.newPage({ viewport: { width: WINDOW_WIDTH_PX, height: 900 } });
   const errors: string[] = [];
   const requests: string[] = [];
   const url = pathToFileURL(file).href;
@@ -50,8 +57,15 @@ export async function checkReportPage(browser: Browser, file: string, screenshot
       marks[id] = { paths, widthPx };
     }
     const runRows = await page.$$eval('#runs tbody tr', (rows) => rows.length);
+    const fit = await page.evaluate(() => {
+      const table = document.querySelector('table.convergence');
+      if (!table) return { right: null, scrolls: false };
+      const last = table.querySelector('thead th:last-child');
+      const box = table.parentElement!;
+      return { right: last ? last.getBoundingClientRect().right : null, scrolls: box.scrollWidth > box.clientWidth + 1 };
+    });
     if (screenshot) await page.screenshot({ path: screenshot, fullPage: true });
-    return { plots, marks, errors, requests, runRows };
+    return { plots, marks, errors, requests, runRows, convergenceRightPx: fit.right, convergenceScrolls: fit.scrolls };
   } finally {
     await page.close();
   }

@@ -1,12 +1,13 @@
 // The analysis of a sweep's tables: grid convergence along the resolution axis and sensitivity indices for the
 // sweep's design, from the rows of runs.parquet and fields/ as read back (read-tables.ts). Pure: rows in, rows
 // out; outputs/ writes them to Parquet and report/ draws them.
-import { convergenceTable, ResolutionAxisSchema, type ConvergenceRow, type ConvergenceRun } from './grid-convergence.js';
+import { convergenceTable, type ConvergenceRun } from './grid-convergence.js';
+import { ResolutionAxisSchema, type ConvergenceRow } from '../../schemas/analysis-rows.js';
 import { elementaryEffectRows, elementaryEffects, type EffectScale } from './morris.js';
 import { residualPhaseDeg } from './residual-phase.js';
 import { regressionRows, standardisedRegression } from './regression.js';
 import { saltelliIndices, saltelliRows } from './saltelli.js';
-import type { SensitivityRow } from './sensitivity-table.js';
+import { type SensitivityRow } from '../../schemas/analysis-rows.js';
 import type { Cell, FieldRecord, FolderTables, RunRecord } from './read-tables.js';
 import { generatorKind, type Sweep } from '../../schemas/sweep.js';
 import { columnNameFor } from '../outputs/parquet.js';

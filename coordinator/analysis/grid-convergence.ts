@@ -1,24 +1,16 @@
 // Grid convergence on the resolution axis of a sweep: apparent order, Richardson extrapolation and the grid
 // convergence index (GCI, Roache's safety factor 1.25), after Celik et al., "Procedure for estimation and reporting
 // of uncertainty due to discretization in CFD applications", J. Fluids Eng. 130(7), 078001, 2008. Pure functions.
-import { z } from 'zod';
-
-/** How three solutions behave as the grid is refined (convergence ratio R = ε21/ε32 of Stern et al., J. Fluids Eng. 123, 2001). */
-export const ConvergenceBehaviourSchema = z.enum([
-  /** 0 < R < 1: differences shrink with refinement, one sign. */
-  'monotone',
-  /** R < 0: the solution swings from one side to the other. */
-  'oscillatory',
-  /** R >= 1, or no positive apparent order: differences do not shrink. */
-  'divergent',
-  /** ε21 or ε32 is zero: the order cannot be estimated. */
-  'zero_difference',
-]);
-export type ConvergenceBehaviour = z.infer<typeof ConvergenceBehaviourSchema>;
-
-/** What the user should do: results within tolerance, refine the grid, or distrust the resolution study. */
-export const ConvergenceVerdictSchema = z.enum(['converged', 'refine', 'unreliable']);
-export type ConvergenceVerdict = z.infer<typeof ConvergenceVerdictSchema>;
+import {
+  ConvergenceBehaviourSchema,
+  ConvergenceOutputSchema,
+  ResolutionAxisSchema,
+  type ConvergenceBehaviour,
+  type ConvergenceOutput,
+  type ConvergenceRow,
+  type ConvergenceVerdict,
+  type ResolutionAxis,
+} from '../../schemas/analysis-rows.js';
 
 export interface GridLevel {
   /** Representative cell size (any unit: only ratios enter). */
@@ -181,58 +173,16 @@ export function gridConvergence(levels: readonly GridLevel[], options: GridConve
 
 // ---- Grouping the runs of a sweep ----------------------------------------------------------------------------
 
-/** The resolution parameter of the sweep and how it maps to a cell size. */
-export const ResolutionAxisSchema = z.enum([
-  /** `grid.cells_per_wavelength`: h ∝ 1/cpw at a fixed frequency. */
-  'cells_per_wavelength',
-  /** `grid.cell_size_m`: h itself. */
-  'cell_size_m',
-]);
-export type ResolutionAxis = z.infer<typeof ResolutionAxisSchema>;
 
-export const ConvergenceOutputSchema = z.enum(['ez_db_uv_per_m', 'ez_phase_deg']);
-export type ConvergenceOutput = z.infer<typeof ConvergenceOutputSchema>;
-
-/** One row of convergence.parquet: one group of otherwise-equal runs, one receiver, one output. Flat columns only. */
-export const ConvergenceRowSchema = z.strictObject({
-  /** The other varied parameters of the group, as canonical JSON (`{}` when only the resolution varies). */
-  group: z.string(),
-  output: ConvergenceOutputSchema,
-  range_m: z.number(),
-  height_m: z.number(),
-  resolution_axis: ResolutionAxisSchema,
-  /** Resolution values of the three finest levels (the ones analysed), finest first. */
-  resolution1: z.number(),
-  resolution2: z.number(),
-  resolution3: z.number(),
-  /** Number of resolution levels of the group (three or more). */
-  levels: z.number().int(),
-  /**
-   * Every level as JSON `[[resolution, value], …]`, finest first (phase unwrapped against the finest): a string so
-   * that the table stays flat for Parquet.
-   */
-  levels_json: z.string(),
-  r21: z.number(),
-  r32: z.number(),
-  phi1: z.number(),
-  phi2: z.number(),
-  phi3: z.number(),
-  apparent_order: z.number().nullable(),
-  phi_extrapolated: z.number().nullable(),
-  /** Null where φ1 = 0 (the relative error has no value). */
-  e_a21: z.number().nullable(),
-  e_ext21: z.number().nullable(),
-  gci_fine21: z.number().nullable(),
-  /** Uncertainty band of the finest run, in the output's unit (dB or degrees). */
-  uncertainty: z.number().nullable(),
-  tolerance: z.number(),
-  behaviour: ConvergenceBehaviourSchema,
-  verdict: ConvergenceVerdictSchema,
-  advice: z.string(),
-});
-export type ConvergenceRow = z.infer<typeof ConvergenceRowSchema>;
 
 export type ParamValue = string | number | boolean | null;
+
+/**
+ * Whether the relative errors of Celik et al. (e_a, e_ext, GCI as fractions of φ1) mean anything for an output: not
+ * for a level in dB or a phase in degrees, whose zero is a convention (common practice: report such outputs'
+ * discretisation error in their own unit).
+ */
+const RELATIVE_ERRORS_MEANINGFUL: Record<ConvergenceOutput, boolean> = { ez_db_uv_per_m: false, ez_phase_deg: false };
 
 /** One finished run as the grouping needs it. */
 export interface ConvergenceRun {
@@ -330,9 +280,13 @@ export function convergenceTable(runs: readonly ConvergenceRun[], options: Conve
           phi3: result.phi3,
           apparent_order: orNull(result.apparentOrder),
           phi_extrapolated: orNull(result.phiExtrapolated),
-          e_a21: orNull(result.relativeError21),
-          e_ext21: orNull(result.extrapolatedRelativeError21),
-          gci_fine21: orNull(result.gciFine21),
+          // Relative errors divide by φ1: for a level in dB or a phase in degrees that depends on the dB reference
+          // and on where phase zero sits, so they mean nothing here and stay null; the absolute ones carry the study.
+          e_a21: RELATIVE_ERRORS_MEANINGFUL[output] ? orNull(result.relativeError21) : null,
+          e_ext21: RELATIVE_ERRORS_MEANINGFUL[output] ? orNull(result.extrapolatedRelativeError21) : null,
+          gci_fine21: RELATIVE_ERRORS_MEANINGFUL[output] ? orNull(result.gciFine21) : null,
+          abs_diff21: Math.abs(result.phi1 - result.phi2),
+          abs_ext21: orNull(Math.abs(result.phiExtrapolated - result.phi1)),
           uncertainty: orNull(result.uncertainty),
           tolerance,
           behaviour: result.behaviour,

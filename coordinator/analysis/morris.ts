@@ -1,7 +1,7 @@
 // Elementary-effect summaries (μ, μ*, σ) of one output over a full factorial grid: for every parameter, the
 // effect of stepping it to its next level with all others held. Definitions: Morris, Technometrics 33(2), 1991
 // (elementary effect, μ, σ); μ* = mean |EE| from Campolongo, Cariboni & Saltelli, Environ. Model. Softw. 22, 2007.
-import type { SensitivityRow } from './sensitivity-table.js';
+import { type SensitivityRow } from '../../schemas/analysis-rows.js';
 
 /** How a parameter's step is measured: as a fraction of its range, or of its range in log10 (for decades). */
 export type EffectScale = 'linear' | 'log';

@@ -6,8 +6,8 @@ import { join } from 'node:path';
 import { DuckDBInstance, type DuckDBConnection } from '@duckdb/node-api';
 import { z } from 'zod';
 import { UserError } from '../../schemas/errors.js';
-import { ConvergenceRowSchema, type ConvergenceRow } from './grid-convergence.js';
-import { SensitivityRowSchema, type SensitivityRow } from './sensitivity-table.js';
+import { ConvergenceRowSchema, type ConvergenceRow } from '../../schemas/analysis-rows.js';
+import { SensitivityRowSchema, type SensitivityRow } from '../../schemas/analysis-rows.js';
 import { loadSweep } from '../sweep/file.js';
 import type { Sweep } from '../../schemas/sweep.js';
 

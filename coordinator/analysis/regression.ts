@@ -1,7 +1,7 @@
 // Standardised regression coefficients (SRC) and R² of a linear fit of one output on the sampled parameters, for
 // Latin hypercube and full factorial sweeps. Method: Saltelli et al., "Global sensitivity analysis: the primer",
 // Wiley 2008, §1.2.5 (SRC_i = b_i·s_xi/s_y; Σ SRC_i² = R² for uncorrelated inputs). Pure: plain arrays in and out.
-import type { SensitivityRow } from './sensitivity-table.js';
+import { type SensitivityRow } from '../../schemas/analysis-rows.js';
 
 export interface RegressionResult {
   /** SRC_i for each parameter (NaN for a parameter that never varies). */

@@ -4,7 +4,7 @@
 import { z } from 'zod';
 import { createPrng } from '../sampling/prng.js';
 import { SOBOL_MAX_DIMENSION, sobolPoints } from '../sampling/sobol.js';
-import type { SensitivityRow } from './sensitivity-table.js';
+import { type SensitivityRow } from '../../schemas/analysis-rows.js';
 
 /**
  * Where each run of a Saltelli design sits. Runs come in blocks of n: A (rows 0..n−1), B (n..2n−1), then A_B^i for

@@ -5,8 +5,8 @@
 import { renameSync } from 'node:fs';
 import { join } from 'node:path';
 import { z } from 'zod';
-import { ConvergenceRowSchema } from '../analysis/grid-convergence.js';
-import { SensitivityRowSchema } from '../analysis/sensitivity-table.js';
+import { ConvergenceRowSchema } from '../../schemas/analysis-rows.js';
+import { SensitivityRowSchema } from '../../schemas/analysis-rows.js';
 import { ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
 import { computeConvergence, computeSensitivity } from '../analysis/compute-tables.js';
 import { readReportFolder } from '../analysis/read-tables.js';

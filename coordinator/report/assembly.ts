@@ -1,7 +1,8 @@
 // Turns the tables of an output folder (plain rows, as read) into the report's data: the convergence and
 // sensitivity tables when the folder has none, the field series, the warnings and the summary. Pure: rows in,
 // ReportData out; the folder reading lives in analysis/read-tables.ts.
-import { describeGroup, type ConvergenceRow } from '../analysis/grid-convergence.js';
+import { describeGroup } from '../analysis/grid-convergence.js';
+import { type ConvergenceRow } from '../../schemas/analysis-rows.js';
 import {
   computeConvergence,
   computeSensitivity,

@@ -1,8 +1,8 @@
 // What the HTML report shows, as one plain data structure: the report builder takes it and returns HTML, so it can
 // be filled from an output folder (the `report` command) or from numbers computed in a test. No I/O here.
 import { z } from 'zod';
-import { ConvergenceRowSchema } from '../analysis/grid-convergence.js';
-import { SensitivityRowSchema } from '../analysis/sensitivity-table.js';
+import { ConvergenceRowSchema } from '../../schemas/analysis-rows.js';
+import { SensitivityRowSchema } from '../../schemas/analysis-rows.js';
 
 export { CellSchema, type Cell } from '../analysis/read-tables.js';
 import { CellSchema } from '../analysis/read-tables.js';

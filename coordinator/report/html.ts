@@ -1,7 +1,8 @@
 // The sweep report: one self-contained HTML page (inline styles, inline SVG plots, no scripts, no fonts or anything
 // else fetched) built from a ReportData structure. Pure apart from rendering the plots: data in, a string out.
-import { describeGroup, type ConvergenceRow } from '../analysis/grid-convergence.js';
-import type { SensitivityRow } from '../analysis/sensitivity-table.js';
+import { describeGroup } from '../analysis/grid-convergence.js';
+import { type ConvergenceRow } from '../../schemas/analysis-rows.js';
+import { type SensitivityRow } from '../../schemas/analysis-rows.js';
 import { ReportDataSchema, type Cell, type ReportData, type ReportDataInput, type ReportWarning } from './data.js';
 import { convergencePlots, fieldPlots, renderSvg, sensitivityPlots, type Plot } from './plots.js';
 
@@ -83,7 +84,9 @@ function countBy(items: readonly string[]): Record<string, number> {
 }
 
 function convergenceTableHtml(rows: readonly ConvergenceRow[]): string {
-  const columns = ['group', 'output', 'range (km)', 'levels', 'finest', 'order p', 'extrapolated', 'GCI fine', 'uncertainty', 'behaviour', 'verdict', 'what to do'];
+  // No relative GCI column: for outputs in dB and degrees it has no meaning (convergence.parquet leaves it null);
+  // the uncertainty band in the output's own unit carries the verdict.
+  const columns = ['group', 'output', 'range (km)', 'levels', 'finest', 'order p', 'extrapolated', 'uncertainty', 'behaviour', 'verdict', 'what to do'];
   const body = rows.map((r) => [
     describeGroup(r.group),
     r.output,
@@ -92,7 +95,6 @@ function convergenceTableHtml(rows: readonly ConvergenceRow[]): string {
     r.resolution1,
     r.apparent_order,
     r.phi_extrapolated,
-    r.gci_fine21 === null ? null : `${(100 * r.gci_fine21).toPrecision(2)} %`,
     r.uncertainty === null ? null : `±${formatCell(r.uncertainty)} ${r.output === 'ez_phase_deg' ? '°' : 'dB'}`,
     r.behaviour,
     r.verdict,
@@ -164,6 +166,10 @@ figcaption { font-size: 12px; color: #555; max-width: 620px; }
 table { border-collapse: collapse; font-size: 12px; }
 th, td { padding: 3px 8px; border-bottom: 1px solid #eee; text-align: left; white-space: nowrap; }
 th { position: sticky; top: 0; background: #f0f3f6; }
+/* The verdict table fits a 1280 px window: the group and the advice wrap instead of widening the table. */
+table.convergence { table-layout: auto; width: 100%; }
+.scroll:has(table.convergence) { display: block; }
+table.convergence td:first-child, table.convergence td:last-child { white-space: normal; min-width: 12em; max-width: 28em; }
 td.num { text-align: right; font-variant-numeric: tabular-nums; }
 table.convergence td:last-child { white-space: normal; min-width: 280px; }
 .note { font-size: 12px; color: #555; }

@@ -3,8 +3,8 @@
 import * as vega from 'vega';
 import { compile, type TopLevelSpec } from 'vega-lite';
 import { C0 } from '../../solver/constants.js';
-import type { ConvergenceRow } from '../analysis/grid-convergence.js';
-import type { SensitivityRow } from '../analysis/sensitivity-table.js';
+import { type ConvergenceRow } from '../../schemas/analysis-rows.js';
+import { type SensitivityRow } from '../../schemas/analysis-rows.js';
 import type { FieldSeries, VariedInput } from './data.js';
 import { residualPhaseDeg } from '../analysis/residual-phase.js';
 
