@@ -2,7 +2,7 @@
 // It is the kernel of the Sommerfeld–Norton attenuation function (norton.ts). Pure maths: no I/O, no state
 // beyond a table of 40 expansion coefficients computed once when the module loads. Equation numbers of
 // Abramowitz & Stegun (1964) are quoted from memory.
-import { type C, abs, add, c, div, exp, mul, neg, scale, square, sub } from './complex.js';
+import { type C, abs, add, c, div, exp, mul, mulJ, neg, scale, square, sub } from './complex.js';
 
 const SQRT_PI = Math.sqrt(Math.PI);
 
@@ -44,7 +44,7 @@ const WEIDEMAN_A = weidemanCoefficients(WEIDEMAN_TERMS, WEIDEMAN_L);
 
 /** Weideman's rational series for Im z ≥ 0: w = 2·Σ a_n Z^{n−1}/(L − iz)² + 1/(√π(L − iz)), Z = (L + iz)/(L − iz). */
 function weidemanUpper(z: C): C {
-  const iz = c(-z.im, z.re);
+  const iz = mulJ(z);
   const d = sub(c(WEIDEMAN_L), iz); // L − iz
   const zeta = div(add(c(WEIDEMAN_L), iz), d); // Z = (L + iz)/(L − iz), Weideman 1994
   let p = c(WEIDEMAN_A[WEIDEMAN_TERMS]);
@@ -68,7 +68,7 @@ export function laplaceContinuedFractionTail(z: C): C {
 /** w(z) = (i/√π)/(z − r), r the continued-fraction tail; Im z ≥ 0, |z| ≥ 8. */
 function continuedFractionUpper(z: C): C {
   const q = div(c(1 / SQRT_PI), sub(z, laplaceContinuedFractionTail(z)));
-  return c(-q.im, q.re); // i·q
+  return mulJ(q); // i·q
 }
 
 /** Smallest |z| at which laplaceContinuedFractionTail is accurate (and faddeeva uses it). */
@@ -108,7 +108,7 @@ export function faddeeva(z: C): C {
  */
 export function erfc(z: C): C {
   if (z.re < 0) return sub(c(2), erfc(neg(z)));
-  const iz = c(-z.im, z.re);
+  const iz = mulJ(z);
   return mul(exp(neg(square(z))), faddeeva(iz)); // erfc(z) = e^{−z²}·w(iz)
 }
 

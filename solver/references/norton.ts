@@ -2,7 +2,7 @@
 // field ratio over a homogeneous ground against a perfect one: the closed form the FDTD over an impedance
 // ground is verified against. Time convention e^{jωt}; no I/O.
 import { C0 } from '../constants.js';
-import { type C, add, c, div, mul, mulJ, scale, sqrt, sub } from './complex.js';
+import { type C, abs, add, c, div, mul, mulJ, neg, recip, scale, sqrt, sub } from './complex.js';
 import { LAPLACE_CONTINUED_FRACTION_MIN_ABS, faddeeva, laplaceContinuedFractionTail } from './faddeeva.js';
 import { complexPermittivity } from './fresnel.js';
 
@@ -25,8 +25,8 @@ import { complexPermittivity } from './fresnel.js';
  */
 export function nortonAttenuation(w: C): C {
   const rootW = sqrt(w);
-  const z = scale(rootW, -1);
-  if (z.im >= 0 && Math.hypot(z.re, z.im) >= LAPLACE_CONTINUED_FRACTION_MIN_ABS) {
+  const z = neg(rootW);
+  if (z.im >= 0 && abs(z) >= LAPLACE_CONTINUED_FRACTION_MIN_ABS) {
     const r = laplaceContinuedFractionTail(z);
     return div(r, add(rootW, r)); // F = r/(√w + r) (derived from the continued fraction)
   }
@@ -52,7 +52,7 @@ export function nortonDelta(
   form: NortonDeltaForm = 'grazing',
 ): C {
   const epsC = complexPermittivity(frequencyHz, conductivitySPerM, relativePermittivity);
-  if (form === 'surface-impedance') return div(c(1), sqrt(epsC)); // Δ = 1/√ε_c
+  if (form === 'surface-impedance') return recip(sqrt(epsC)); // Δ = 1/√ε_c
   return div(sqrt(sub(epsC, c(1))), epsC); // Δ = √(ε_c − 1)/ε_c
 }
 
@@ -64,7 +64,7 @@ export function nortonDelta(
 export function numericalDistance(frequencyHz: number, rangeM: number, delta: C): C {
   const k = (2 * Math.PI * frequencyHz) / C0;
   const d2 = mul(delta, delta);
-  return scale(c(d2.im, -d2.re), (k * rangeM) / 2); // −j·(k d/2)·Δ²
+  return scale(mulJ(d2), -(k * rangeM) / 2); // −j·(k d/2)·Δ²
 }
 
 export interface NortonOptions {
