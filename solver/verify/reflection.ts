@@ -86,10 +86,12 @@ const FAR_SIDE_REFERENCE_FACTOR = 3;
  * perfect-ground case is solved twice, with the layer 10 λ out and in a reference domain three times as long,
  * whose own layer's echo is negligible here (it is itself of this size and travels 40 λ further). At receivers on
  * the ground within 1 λ of the short domain's layer the incident and reflected paths are nearly equal, so
- * |E_short − E_long|/|E_long| is the layer's reflection there (the difference travels inwards: arg(ΔE/E) − 2k·r
- * stays within a 40° band over the receivers, measured). The layer's design value, the continuous graded layer's normal-incidence
- * reflection R0 = e^{−40} (−347 dB; σmax from ln R0 = −40 in solver/cpml.ts, Taflove & Hagness 2005, ch. 7), is
- * far below what any discrete layer reaches; the bound is the field budget.
+ * |E_short − E_long|/|E_long| is the layer's reflection there. The difference is a wave travelling inwards:
+ * arg(ΔE/E) − 2k·r stays within a 40° band over the receivers (measured).
+ * Design value: the continuous graded layer reflects R(0) = exp(−2η0∫σ dx) = R0 at normal incidence, and
+ * solver/cpml.ts sets σmax from ln R0 = −40, i.e. R0 = e^{−40} = −347 dB (Taflove & Hagness, Computational
+ * Electrodynamics, 3rd ed. 2005, ch. 7, from memory). No discrete layer gets near that: its reflection is set
+ * by the grading's discretisation, so the bound below is the field budget, not R0.
  */
 export const farSideAbsorbingLayerCheck: ReferenceCheck = {
   id: 'cpml-far-side-axisymmetric',
