@@ -4,7 +4,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
 import { afterAll, describe, expect, it } from 'vitest';
-import { columnNameFor, ParquetTableWriter, type ColumnSpec } from '../coordinator/outputs/parquet.js';
+import { ParquetTableWriter, type ColumnSpec } from '../coordinator/outputs/parquet.js';
+import { columnNameFor } from '../schemas/table-rows.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'loamwave-parquet-'));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));

@@ -10,7 +10,7 @@ import { saltelliIndices, saltelliRows } from './saltelli.js';
 import { type SensitivityRow } from '../../schemas/analysis-rows.js';
 import type { Cell, FieldRecord, FolderTables, RunRecord } from './read-tables.js';
 import { generatorKind, type Sweep } from '../../schemas/sweep.js';
-import { columnNameFor } from '../outputs/parquet.js';
+import { columnNameFor } from '../../schemas/table-rows.js';
 
 export interface AnalysisOptions {
   readonly generatedBy: string;

@@ -71,6 +71,22 @@ async function readRows(conn: DuckDBConnection, sql: string): Promise<{ columns:
   return { columns, rows };
 }
 
+/**
+ * Run one query over one of the folder's files; a file the engine cannot read (corrupt, truncated, not Parquet)
+ * becomes one line naming it and the fix, exit code 2, instead of the engine's multi-line message.
+ */
+async function readFile(conn: DuckDBConnection, sql: string, file: string): Promise<{ columns: string[]; rows: Record<string, Cell>[] }> {
+  try {
+    return await readRows(conn, sql);
+  } catch (e) {
+    const first = String((e as Error).message ?? e).split('\n')[0].trim();
+    throw new UserError(
+      `${file}: cannot be read as a Parquet table (${first}); write the outputs again with loamwave run or loamwave collect (they are rebuilt from the ledger)`,
+      'loamwave.outputs.unreadable',
+    );
+  }
+}
+
 function parseTable<T>(schema: z.ZodType<T>, rows: Record<string, Cell>[], file: string): T[] {
   return rows.map((row, i) => {
     const r = schema.safeParse(row);
@@ -102,14 +118,15 @@ export async function readReportFolder(dir: string): Promise<FolderTables> {
   const db = await DuckDBInstance.create(':memory:');
   const conn = await db.connect();
   try {
-    const runs = await readRows(conn, `SELECT * FROM read_parquet(${sqlPath(runsPath)})`);
+    const runs = await readFile(conn, `SELECT * FROM read_parquet(${sqlPath(runsPath)})`, runsPath);
     const fieldsDir = join(dir, REPORT_INPUTS.fields);
     let fields: FieldRecord[] = [];
     if (existsSync(fieldsDir)) {
       const glob = join(fieldsDir, '**', '*.parquet');
-      const read = await readRows(
+      const read = await readFile(
         conn,
         `SELECT job_id, range_m, height_m, ez_db_uv_per_m, ez_phase_deg FROM read_parquet(${sqlPath(glob)}, hive_partitioning = true) ORDER BY job_id, range_m, height_m`,
+        fieldsDir,
       );
       fields = read.rows.map((r) => ({
         job_id: String(r.job_id),
@@ -122,7 +139,7 @@ export async function readReportFolder(dir: string): Promise<FolderTables> {
     const optional = async <T>(file: string, schema: z.ZodType<T>): Promise<T[] | null> => {
       const path = join(dir, file);
       if (!existsSync(path)) return null;
-      return parseTable(schema, (await readRows(conn, `SELECT * FROM read_parquet(${sqlPath(path)})`)).rows, file);
+      return parseTable(schema, (await readFile(conn, `SELECT * FROM read_parquet(${sqlPath(path)})`, path)).rows, file);
     };
     const convergence: ConvergenceRow[] | null = await optional(REPORT_INPUTS.convergence, ConvergenceRowSchema);
     const sensitivity: SensitivityRow[] | null = await optional(REPORT_INPUTS.sensitivity, SensitivityRowSchema);

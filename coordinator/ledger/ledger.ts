@@ -7,28 +7,11 @@ import Database from 'better-sqlite3';
 import type { Case } from '../../schemas/case.js';
 import { UserError } from '../../schemas/errors.js';
 import type { JobResult } from '../../schemas/result.js';
+import { JOB_STATUSES, type JobStatus, type LedgerJob } from '../../schemas/table-rows.js';
 import { toExactJson } from './exact-json.js';
 import type { ExpandedJob } from '../sweep/expand.js';
 
-export const JOB_STATUSES = ['pending', 'queued', 'running', 'done', 'failed'] as const;
-export type JobStatus = (typeof JOB_STATUSES)[number];
-
-export interface LedgerJob {
-  job_id: string;
-  index: number;
-  params: Record<string, number | string>;
-  case: Case;
-  status: JobStatus;
-  /** Times the job was started (markRunning) or the count a failure reported, whichever is larger. */
-  attempts: number;
-  error: string | null;
-  queued_at_ms: number | null;
-  started_at_ms: number | null;
-  finished_at_ms: number | null;
-  /** Sampled designs: `A`, `B`, `AB_<i>` or `LHS`; null for a full factorial. */
-  design_role: string | null;
-  design_sample: number | null;
-}
+export { JOB_STATUSES, type JobStatus, type LedgerJob } from '../../schemas/table-rows.js';
 
 export interface LedgerOptions {
   /** Milliseconds since the epoch; @defaultValue Date.now */
@@ -46,24 +29,19 @@ export class UnknownJobError extends Error {
 }
 
 export const LEDGER_FILE = 'ledger.sqlite';
+
+/** The ledger file is an SQLite database of some other program. */
+class ForeignLedgerError extends UserError {
+  constructor(path: string) {
+    super(`${path}: not a Loamwave ledger (an SQLite file without its tables); move the file away or use another --out folder`, 'loamwave.ledger.foreign');
+  }
+}
 const LEDGER_FORMAT = '1';
 /** Rows fetched per page by `results()`; pages keep memory bounded and the connection free between them. */
 const RESULTS_PAGE = 256;
 
-interface JobRow {
-  job_id: string;
-  idx: number;
-  params_json: string;
-  case_json: string;
-  status: JobStatus;
-  attempts: number;
-  error: string | null;
-  queued_at_ms: number | null;
-  started_at_ms: number | null;
-  finished_at_ms: number | null;
-  design_role: string | null;
-  design_sample: number | null;
-}
+/** A row of the jobs table: the job schema's fields, with the index and the JSON columns under their SQL names. */
+type JobRow = Omit<LedgerJob, 'index' | 'params' | 'case'> & { idx: number; params_json: string; case_json: string };
 
 const SCHEMA_SQL = `
 CREATE TABLE IF NOT EXISTS meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
@@ -72,7 +50,7 @@ CREATE TABLE IF NOT EXISTS jobs (
   idx INTEGER NOT NULL,
   params_json TEXT NOT NULL,
   case_json TEXT NOT NULL,
-  status TEXT NOT NULL CHECK (status IN ('pending', 'queued', 'running', 'done', 'failed')),
+  status TEXT NOT NULL CHECK (status IN (${JOB_STATUSES.map((st) => `'${st}'`).join(', ')})),
   attempts INTEGER NOT NULL DEFAULT 0,
   error TEXT,
   queued_at_ms INTEGER,
@@ -116,9 +94,17 @@ export class Ledger {
       db.pragma('synchronous = FULL');
       db.pragma('busy_timeout = 5000');
       db.pragma('foreign_keys = ON');
+      // A database that has tables but none of ours is someone else's file: refuse it instead of adding to it.
+      const tables = db.prepare<[], { name: string }>(`SELECT name FROM sqlite_master WHERE type = 'table'`).all().map((t) => t.name);
+      if (tables.length > 0 && !(tables.includes('meta') && tables.includes('jobs'))) {
+        db.close();
+        throw new ForeignLedgerError(path);
+      }
       db.exec(SCHEMA_SQL);
     } catch (e) {
-      throw new UserError(`${path}: cannot open the ledger (${(e as Error).message}); remove or move the file`, 'loamwave.ledger.unreadable');
+      if (e instanceof ForeignLedgerError) throw e;
+      const first = String((e as Error).message).split('\n')[0];
+      throw new UserError(`${path}: cannot open the ledger (${first}); move the file away or use another --out folder`, 'loamwave.ledger.unreadable');
     }
     const format = db.prepare<[], { value: string }>(`SELECT value FROM meta WHERE key = 'format'`).get();
     if (format === undefined) db.prepare(`INSERT INTO meta (key, value) VALUES ('format', ?)`).run(LEDGER_FORMAT);

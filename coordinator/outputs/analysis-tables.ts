@@ -7,26 +7,11 @@ import { join } from 'node:path';
 import { z } from 'zod';
 import { ConvergenceRowSchema } from '../../schemas/analysis-rows.js';
 import { SensitivityRowSchema } from '../../schemas/analysis-rows.js';
-import { ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
+import { columnsFromRowSchema } from './columns.js';
+import { ParquetTableWriter, type CellValue } from './parquet.js';
 import { computeConvergence, computeSensitivity } from '../analysis/compute-tables.js';
 import { readReportFolder } from '../analysis/read-tables.js';
 import { SOLVER_VERSION } from '../../solver/version.js';
-
-type JsonType = string | string[] | undefined;
-
-/** A row schema's columns: JSON Schema `number` → DOUBLE, `integer` → INT64, `string` → UTF8, `boolean` → BOOLEAN. */
-export function columnsFromRowSchema(schema: z.ZodObject): Array<ColumnSpec & { nullable: boolean }> {
-  const json = z.toJSONSchema(schema, { io: 'output' }) as { properties: Record<string, { type?: JsonType }> };
-  return Object.entries(json.properties).map(([name, prop]) => {
-    const types = ([] as string[]).concat(prop.type ?? []);
-    const base = types.filter((t) => t !== 'null');
-    if (base.length !== 1) throw new Error(`columnsFromRowSchema: column ${name} has no single type (${types.join(', ')})`);
-    const map: Record<string, ColumnSpec['type']> = { number: 'DOUBLE', integer: 'INT64', string: 'UTF8', boolean: 'BOOLEAN' };
-    const type = map[base[0]];
-    if (!type) throw new Error(`columnsFromRowSchema: column ${name} is a ${base[0]}, not a flat value`);
-    return { name, type, nullable: types.includes('null') };
-  });
-}
 
 /** Write rows of a flat row schema to one Parquet file; non-finite numbers become null where the schema allows null. */
 export async function writeRowTable(path: string, schema: z.ZodObject, rows: readonly object[]): Promise<number> {

@@ -32,11 +32,6 @@ interface ParquetLib {
 // parquetjs-lite is CommonJS without typings; its surface is the three calls above.
 const parquet = createRequire(import.meta.url)('parquetjs-lite') as ParquetLib;
 
-/** A column name fit for Parquet and SQL: `ground.segments[0].conductivity_s_per_m` → `ground_segments_0_conductivity_s_per_m`. */
-export function columnNameFor(path: string): string {
-  return path.replace(/[.[\]]+/g, '_').replace(/_+$/, '');
-}
-
 /** A streaming writer of one Parquet file with a fixed column list. */
 export class ParquetTableWriter {
   readonly path: string;

@@ -8,9 +8,11 @@ import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, writeFileSync }
 import { join } from 'node:path';
 import type { Sweep } from '../../schemas/sweep.js';
 import type { JobResult } from '../../schemas/result.js';
-import type { Ledger, LedgerJob } from '../ledger/ledger.js';
+import { columnNameFor, FieldRowSchema, RunFactsSchema, RunKeySchema, type FieldRow, type LedgerJob, type RunFacts } from '../../schemas/table-rows.js';
+import type { Ledger } from '../ledger/ledger.js';
+import { columnsFromRowSchema } from './columns.js';
 import { ANALYSIS_FILES, writeAnalysisTables } from './analysis-tables.js';
-import { columnNameFor, ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
+import { ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
 import { expandSweep, type ExpandedJob } from '../sweep/expand.js';
 
 export interface OutputOptions {
@@ -58,61 +60,19 @@ export function paramColumns(jobs: readonly ExpandedJob[], sweep: Sweep): Array<
   }));
 }
 
-const RUN_COLUMNS: ColumnSpec[] = [
-  { name: 'design_role', type: 'UTF8' },
-  { name: 'design_sample', type: 'INT64' },
-  { name: 'cell_size_m', type: 'DOUBLE' },
-  { name: 'time_step_s', type: 'DOUBLE' },
-  { name: 'steps', type: 'INT64' },
-  { name: 'steps_per_period', type: 'INT64' },
-  { name: 'cells_total', type: 'INT64' },
-  { name: 'memory_bytes', type: 'INT64' },
-  // Cell updates can pass 2^53 in principle; DOUBLE keeps it as the solver reports it.
-  { name: 'cell_updates', type: 'DOUBLE' },
-  { name: 'settled', type: 'BOOLEAN' },
-  { name: 'settling_change', type: 'DOUBLE' },
-  { name: 'wall_time_s', type: 'DOUBLE' },
-  { name: 'solver_version', type: 'UTF8' },
-  { name: 'warnings', type: 'UTF8' },
-  { name: 'error', type: 'UTF8' },
-  { name: 'attempts', type: 'INT64' },
-  { name: 'queued_at_ms', type: 'INT64' },
-  { name: 'started_at_ms', type: 'INT64' },
-  { name: 'finished_at_ms', type: 'INT64' },
-];
-
-const FIELD_COLUMNS: ColumnSpec[] = [
-  { name: 'range_m', type: 'DOUBLE' },
-  { name: 'height_m', type: 'DOUBLE' },
-  { name: 'ez_re', type: 'DOUBLE' },
-  { name: 'ez_im', type: 'DOUBLE' },
-  { name: 'e_horizontal_re', type: 'DOUBLE' },
-  { name: 'e_horizontal_im', type: 'DOUBLE' },
-  { name: 'h_re', type: 'DOUBLE' },
-  { name: 'h_im', type: 'DOUBLE' },
-  { name: 'ez_db_uv_per_m', type: 'DOUBLE' },
-  { name: 'ez_phase_deg', type: 'DOUBLE' },
-];
-
 /** Columns of runs.parquet, in order. */
 export function runColumns(params: readonly ColumnSpec[]): ColumnSpec[] {
-  return [
-    { name: 'job_id', type: 'UTF8' },
-    { name: 'index', type: 'INT64' },
-    { name: 'status', type: 'UTF8' },
-    ...params.map(({ name, type }) => ({ name, type })),
-    ...RUN_COLUMNS,
-  ];
+  return [...plain(RunKeySchema), ...params.map(({ name, type }) => ({ name, type })), ...plain(RunFactsSchema)];
+}
+
+/** The columns of a row schema, without the nullability flag (every Parquet column we write is optional). */
+function plain(schema: Parameters<typeof columnsFromRowSchema>[0]): ColumnSpec[] {
+  return columnsFromRowSchema(schema).map(({ name, type }) => ({ name, type }));
 }
 
 /** Columns of the fields/ files, in order (the Hive key `part` lives in the folder name, not in the files). */
 export function fieldColumns(params: readonly ColumnSpec[]): ColumnSpec[] {
-  return [
-    { name: 'job_id', type: 'UTF8' },
-    { name: 'index', type: 'INT64' },
-    ...FIELD_COLUMNS,
-    ...params.map(({ name, type }) => ({ name, type })),
-  ];
+  return [...plain(FieldRowSchema), ...params.map(({ name, type }) => ({ name, type }))];
 }
 
 /** Jobs per `part=<n>` partition so that no file holds more than `rowsPerFile` rows. */
@@ -132,11 +92,8 @@ function paramCells(job: ExpandedJob, params: ReadonlyArray<ColumnSpec & { path:
 
 function runRow(job: ExpandedJob, row: LedgerJob | undefined, result: JobResult | undefined, params: ReadonlyArray<ColumnSpec & { path: string }>): Record<string, CellValue> {
   const g = result?.grid;
-  return {
-    job_id: job.job_id,
-    index: job.index,
-    status: row?.status ?? 'pending',
-    ...paramCells(job, params),
+  // Typed as the schema's row, so a column added to RunFactsSchema must be filled here (null when unknown).
+  const facts: { [K in keyof RunFacts]: RunFacts[K] | undefined } = {
     design_role: job.design?.role,
     design_sample: job.design?.sample,
     cell_size_m: g?.cell_size_m,
@@ -157,6 +114,7 @@ function runRow(job: ExpandedJob, row: LedgerJob | undefined, result: JobResult 
     started_at_ms: row?.started_at_ms,
     finished_at_ms: row?.finished_at_ms,
   };
+  return { job_id: job.job_id, index: job.index, status: row?.status ?? 'pending', ...paramCells(job, params), ...facts };
 }
 
 /** The sweep copy's file name: `sweep.json` when the text is JSON, else `sweep.yaml`. */
@@ -221,7 +179,7 @@ export async function writeOutputs(
         }
         const p = paramCells(job, params);
         for (const r of result.receivers) {
-          await w.append({
+          const fieldRow: FieldRow = {
             job_id: job.job_id,
             index: job.index,
             range_m: r.range_m,
@@ -234,8 +192,8 @@ export async function writeOutputs(
             h_im: r.h.im,
             ez_db_uv_per_m: r.ez_db_uv_per_m,
             ez_phase_deg: r.ez_phase_deg,
-            ...p,
-          });
+          };
+          await w.append({ ...fieldRow, ...p });
           fieldRows++;
         }
       }

@@ -167,9 +167,10 @@ table { border-collapse: collapse; font-size: 12px; }
 th, td { padding: 3px 8px; border-bottom: 1px solid #eee; text-align: left; white-space: nowrap; }
 th { position: sticky; top: 0; background: #f0f3f6; }
 /* The verdict table fits a 1280 px window: the group and the advice wrap instead of widening the table. */
-table.convergence { table-layout: auto; width: 100%; }
+table.convergence { table-layout: auto; }
 .scroll:has(table.convergence) { display: block; }
-table.convergence td:first-child, table.convergence td:last-child { white-space: normal; min-width: 12em; max-width: 28em; }
+table.convergence td:first-child { white-space: normal; min-width: 6em; max-width: 20em; }
+table.convergence td:last-child { white-space: normal; min-width: 14em; max-width: 28em; }
 td.num { text-align: right; font-variant-numeric: tabular-nums; }
 table.convergence td:last-child { white-space: normal; min-width: 280px; }
 .note { font-size: 12px; color: #555; }
