@@ -32,3 +32,18 @@ export {
   pecLineSourceMomentForPowerAM,
   pecLineSourceRadiatedPowerWPerM,
 } from './dipole.js';
+export { type AiryAi, type AiryValues, type FockW, airy, airyAi, airyAiZero, airyAipZero, fockW } from './airy.js';
+export {
+  type Attenuation,
+  type AttenuationOptions,
+  type SphericalEarthField,
+  type SphericalEarthOptions,
+  type SphericalEarthParameters,
+  EARTH_MEAN_RADIUS_M,
+  residueRoot,
+  residueRoots,
+  sphericalEarthAttenuation,
+  sphericalEarthField,
+  sphericalEarthFieldRatio,
+  sphericalEarthParameters,
+} from './spherical-earth.js';
