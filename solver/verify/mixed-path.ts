@@ -9,7 +9,7 @@ import { db, outcome, type CheckFamily, type ReferenceCheck, type Tolerance } fr
 export const MIXED_PATH_TOLERANCE_DB: Tolerance = {
   value: 0.5,
   reason:
-    "the Sommerfeld–Norton curves the method is built from read low by 0.09–0.27 dB at these ranges (REFERENCES.md measurement, the same land), to which the method's own approximation adds an unmeasured part; as the Norton checks, 0.5 dB",
+    "the Sommerfeld–Norton curves the method is built from read low by 0.09–0.27 dB over the 10–80 km it uses (REFERENCES.md measurement for this land), to which the method's own approximation adds an unmeasured part; as the Norton checks, 0.5 dB",
 };
 
 /**
