@@ -134,9 +134,9 @@ describe('roots of the modal equation w\'(t) − q·w(t) = 0', () => {
     { name: 'q = 5·e^{−j3π/8}', q: fromPolar(5, -3 * Math.PI / 8) },
     { name: 'q = 30·e^{−jπ/2}', q: fromPolar(30, -Math.PI / 2) },
   ])('when the case is $name then the argument principle finds no root the tracking missed', ({ q }) => {
-    // Argument principle (e.g. E. C. Titchmarsh, The Theory of Functions, 1939, §3.41): the integral counts the
-    // zeros of the entire function g inside the circle, which is drawn midway between the 10th and 11th tracked
-    // roots. Tolerance 0.01 on an integer count (measured |error| ≤ 5e-14).
+    // The argument principle of complex analysis (e.g. L. V. Ahlfors, Complex Analysis, 1953; from memory): the
+    // integral counts the zeros of the entire function g inside the circle, drawn midway between the 10th and 11th
+    // tracked roots. Tolerance 0.01 on an integer count (measured |error| ≤ 3e-14).
     const roots = residueRoots(q, 14);
     const sizes = roots.map(abs).sort((a, b) => a - b);
     const radius = (sizes[9] + sizes[10]) / 2;
