@@ -1,6 +1,7 @@
 // Saltelli design and Sobol' index estimators against analytic indices of published test functions.
 import { describe, expect, it } from 'vitest';
-import { saltelliDesign, saltelliIndices, saltelliRow, saltelliRows } from '../coordinator/analysis/saltelli.js';
+import { saltelliIndices, saltelliRows } from '../coordinator/analysis/saltelli.js';
+import { saltelliDesign, saltelliRole, saltelliRow, saltelliRowOfRole } from '../coordinator/sampling/saltelli-layout.js';
 import { SensitivityRowSchema } from '../schemas/analysis-rows.js';
 
 /** Ishigami & Homma 1990: f = sin x1 + a·sin²x2 + b·x3⁴·sin x1, x_i ~ U(−π, π). */
@@ -25,6 +26,19 @@ describe('Saltelli design', () => {
         const ab = points[saltelliRow(layout, i, j)];
         expect(Array.from(ab)).toEqual(Array.from(a).map((v, k) => (k === i ? b[k] : v)));
       }
+    }
+  });
+
+  it('when a row is given its role and back then every row of the layout returns to itself, and foreign roles to none', () => {
+    const { layout } = saltelliDesign(3, 8);
+    for (let row = 0; row < 8 * 5; row++) {
+      expect(saltelliRowOfRole(layout, saltelliRole(8, row), row % 8)).toBe(row);
+    }
+    expect(saltelliRole(8, 0)).toBe('A');
+    expect(saltelliRole(8, 8)).toBe('B');
+    expect(saltelliRole(8, 8 * 4 + 7)).toBe('AB_2');
+    for (const [role, sample] of [['LHS', 0], ['AB_3', 0], ['A', 8], ['B', -1], ['AB_x', 1]] as const) {
+      expect(saltelliRowOfRole(layout, role, sample), `${role} ${sample}`).toBeUndefined();
     }
   });
 

@@ -8,7 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { main } from '../coordinator/cli.js';
 import { Ledger } from '../coordinator/ledger/ledger.js';
 import { writeOutputs } from '../coordinator/outputs/tables.js';
-import { saltelliDesign } from '../coordinator/analysis/saltelli.js';
+import { saltelliDesign } from '../coordinator/sampling/saltelli-layout.js';
 import { computeSensitivity } from '../coordinator/analysis/compute-tables.js';
 import type { FolderTables } from '../coordinator/analysis/read-tables.js';
 import type { ReportWarning } from '../coordinator/report/data.js';

@@ -7,6 +7,7 @@ import { elementaryEffectRows, elementaryEffects, type EffectScale } from './mor
 import { residualPhaseDeg } from './residual-phase.js';
 import { regressionRows, standardisedRegression } from './regression.js';
 import { saltelliIndices, saltelliRows } from './saltelli.js';
+import { saltelliRowOfRole } from '../sampling/saltelli-layout.js';
 import { type SensitivityRow } from '../../schemas/analysis-rows.js';
 import type { Cell, FieldRecord, FolderTables, RunRecord } from './read-tables.js';
 import { generatorKind, type Sweep } from '../../schemas/sweep.js';
@@ -147,15 +148,13 @@ export function computeSensitivity(tables: FolderTables, notes: Notes): Sensitiv
   if (design.kind === 'saltelli') {
     const n = design.samples;
     const d = params.length;
-    const rowOf = (role: string, sample: number) => {
-      const block = role === 'A' ? 0 : role === 'B' ? 1 : 2 + Number(role.slice(3));
-      return block * n + sample;
-    };
+    const layout = { n, d, skip: 0, seed: design.seed };
     const placed = new Map<string, number>();
     for (const run of done) {
       const role = run.design_role;
       const sample = num(run.design_sample);
-      if (typeof role === 'string' && sample !== undefined) placed.set(String(run.job_id), rowOf(role, sample));
+      const at = typeof role === 'string' && sample !== undefined ? saltelliRowOfRole(layout, role, sample) : undefined;
+      if (at !== undefined) placed.set(String(run.job_id), at);
     }
     for (const [output, byJob] of outputs) {
       const y = new Float64Array(n * (d + 2)).fill(Number.NaN);
@@ -176,7 +175,7 @@ export function computeSensitivity(tables: FolderTables, notes: Notes): Sensitiv
         continue;
       }
       try {
-        const indices = saltelliIndices(y, { n, d, skip: 0, seed: design.seed });
+        const indices = saltelliIndices(y, layout);
         rows.push(...saltelliRows(output, params.map((p) => p.column), indices, n));
       } catch (e) {
         notes.warnings.push({ kind: 'solver', job_id: null, message: `sensitivity of ${output}: ${(e as Error).message.replace(/^saltelliIndices: /, '')}` });

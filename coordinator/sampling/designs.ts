@@ -1,9 +1,9 @@
-// Unit-cube rows of the sampled sweep designs, each with its role in the design: a thin adapter over the analysis
-// room's Latin hypercube and Saltelli samplers, so that the expansion and the sensitivity estimators agree on
-// one layout. Pure and deterministic for a given seed.
+// Unit-cube rows of the sampled sweep designs, each with its role in the design: a thin adapter over the Latin
+// hypercube and Saltelli samplers, so that the expansion and the sensitivity estimators agree on one layout
+// (saltelli-layout.ts). Pure and deterministic for a given seed.
 import { latinHypercube } from './latin-hypercube.js';
 import { SOBOL_MAX_DIMENSION } from './sobol.js';
-import { saltelliDesign } from '../analysis/saltelli.js';
+import { saltelliDesign, saltelliRole } from './saltelli-layout.js';
 
 export interface UnitRow {
   /** Coordinates in [0, 1)^d, one per vary path in the order written. */
@@ -25,9 +25,5 @@ export function latinHypercubeUnit(n: number, d: number, seed: number): UnitRow[
 /** n·(d + 2) Saltelli rows in block order A, B, AB_0 … AB_{d−1} (Saltelli et al., Comput. Phys. Commun. 181(2), 2010). */
 export function saltelliUnit(d: number, n: number, seed: number): UnitRow[] {
   const { points } = saltelliDesign(d, n, seed);
-  return points.map((u, row) => {
-    const block = Math.floor(row / n);
-    const role = block === 0 ? 'A' : block === 1 ? 'B' : `AB_${block - 2}`;
-    return { u, role, sample: row % n };
-  });
+  return points.map((u, row) => ({ u, role: saltelliRole(n, row), sample: row % n }));
 }
