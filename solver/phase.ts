@@ -30,3 +30,13 @@ export function unwrapSequenceRad(phasesRad: readonly number[]): number[] {
   for (let i = 0; i < phasesRad.length; i++) out.push(i === 0 ? phasesRad[0] : unwrapNearRad(phasesRad[i], out[i - 1]));
   return out;
 }
+
+/**
+ * The same in degrees: each phase unwrapped against the one before it (steps between neighbours within 180°).
+ * Example: unwrapSequenceDeg([170, −170, −150]) = [170, 190, 210].
+ */
+export function unwrapSequenceDeg(phasesDeg: readonly number[]): number[] {
+  const out: number[] = [];
+  for (let i = 0; i < phasesDeg.length; i++) out.push(i === 0 ? phasesDeg[0] : unwrapNearDeg(phasesDeg[i], out[i - 1]));
+  return out;
+}

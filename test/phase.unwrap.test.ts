@@ -1,7 +1,7 @@
 // solver/phase.ts: shifting a phase by whole turns to lie within half a turn of a reference.
 // The specification is the definition itself (a multiple of 2π or 360° added, the result within half a turn).
 import { describe, expect, it } from 'vitest';
-import { unwrapNearDeg, unwrapNearRad, unwrapSequenceRad } from '../solver/phase.js';
+import { unwrapNearDeg, unwrapNearRad, unwrapSequenceDeg, unwrapSequenceRad } from '../solver/phase.js';
 
 describe('phase unwrapping', () => {
   it('when a phase is many turns from the reference then whole turns are added to bring it within half a turn', () => {
@@ -39,5 +39,10 @@ describe('phase unwrapping', () => {
     // atan2 of the rounded sine and cosine is good to a few ulps of π
     back.forEach((p, i) => expect(Math.abs(p - ramp[i])).toBeLessThan(1e-13));
     expect(unwrapSequenceRad([])).toEqual([]);
+  });
+
+  it('when phases in degrees wrap through ±180° along a sequence then they are made continuous, exactly', () => {
+    expect(unwrapSequenceDeg([170, -170, -150, 179, -1])).toEqual([170, 190, 210, 179, 359]);
+    expect(unwrapSequenceDeg([5])).toEqual([5]);
   });
 });
