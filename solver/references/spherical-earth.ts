@@ -56,18 +56,19 @@ function rootVelocity(t: C, q: C): C {
 
 /**
  * The s-th root t_s of Fock's modal equation w'(t) − q·w(t) = 0 (w = w2 of airy.ts, e^{jωt}), tracked from the
- * perfect-conductor root t_s(0) = a'_s·e^{j2π/3} = |a'_s|·e^{−jπ/3} (a'_s the s-th zero of Ai';
- * w'(t) ∝ Ai'(t·e^{−j2π/3}))
- * along the straight path p·q, p: 0 → 1 (the method of V. A. Fock, 1946, and of J. R. Wait, Electromagnetic Waves in
+ * perfect-conductor root t_s(0) = a'_s·e^{j2π/3} = |a'_s|·e^{−jπ/3} (a'_s the s-th zero of Ai', as
+ * w'(t) ∝ Ai'(t·e^{−j2π/3})) along the straight path p·q, p: 0 → 1 (the method of V. A. Fock, 1946, and of J. R. Wait, Electromagnetic Waves in
  * Stratified Media, 1962, who follow the roots with the differential equation dt/dq = 1/(t − q²); from memory).
  * Each step: a fourth-order Runge–Kutta predictor on dt/dq, then Newton's iteration on the modal equation at the
  * new q; the step is halved when Newton moves the predicted root by more than 2 % of the local root spacing.
  * The result solves the modal equation to a few ulps of |t| (Newton's last step ≤ 1e-14·|t|; against mpmath's
  * findroot 1e-14 relative, measured). A passive homogeneous ground has arg Δ ∈ [0, π/4], so arg q ∈ [−π/2, −π/4];
- * there the tracks were checked complete by the argument principle for |q| from 0.1 to 100 (the test's
- * zerosInside), and no root with t ≈ q² (a trapped surface wave, which exists only for arg q > −π/4) arises.
- * Throws if the path meets a double root (t = q², where two roots coalesce): measured only for arg q ≥ −π/8 and
- * |q| ≳ 30, outside the passive range.
+ * there the tracks were checked complete by the argument principle for |q| from 0.1 to 100 at arg q = −π/2, −3π/8,
+ * −π/4 (the test's zerosInside keeps six cases). No root near t = q² (a trapped surface wave) arises there: for
+ * large |q| it needs Ai'(z)/Ai(z) ≈ −√z = q·e^{j2π/3} to have a principal root, i.e. arg q > −π/6 (arg Δ > π/3, an
+ * inductive surface that no homogeneous ground gives; derived, and seen at arg q = −π/8). Throws if the path meets
+ * a double root (t = q², where two roots coalesce): met only for arg q ≥ −π/8 and |q| ≳ 30 (measured), outside the
+ * passive range.
  */
 export function residueRoot(q: C, s: number): C {
   if (!Number.isInteger(s) || s < 1) throw new RangeError(`residueRoot: index s must be an integer ≥ 1 (got ${s})`);
