@@ -2,6 +2,7 @@
 // options with their bounds. One definition each, so `run`, `submit`, `worker`, `collect` and `status` agree.
 import { InvalidArgumentError, Option, type Command } from 'commander';
 import { DEFAULT_QUEUE_PREFIX } from '../../schemas/queue-names.js';
+import type { QueueSettings } from '../queue/target.js';
 
 /** Environment variable a worker reads its Redis URL from when `--redis` is not given (handy in job arrays). */
 export const REDIS_URL_ENV = 'LOAMWAVE_REDIS_URL';
@@ -36,11 +37,7 @@ export function mibToBytes(mib: number): number {
   return mib * 2 ** 20;
 }
 
-export interface QueueCliOptions {
-  redis?: string;
-  redisCa?: string;
-  prefix: string;
-}
+export type QueueCliOptions = QueueSettings;
 
 /** Add `--redis URL`, `--redis-ca FILE` and `--prefix P`; `fromEnv` lets the URL come from LOAMWAVE_REDIS_URL. */
 export function addQueueOptions(cmd: Command, how: { required: boolean; fromEnv?: boolean; what: string }): Command {

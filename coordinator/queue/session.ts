@@ -5,8 +5,7 @@ import type { Ledger } from '../ledger/ledger.js';
 import { ProgressBar } from '../dispatch/progress-bar.js';
 import { activeProgress, collectOnce, followCollection, retireQueue, type CollectSummary } from './collect.js';
 import { submitSweep, type SubmitSummary } from './submit.js';
-import { QueueHandles, queueTarget } from './target.js';
-import type { QueueCliOptions } from '../commands/options.js';
+import { QueueHandles, queueTarget, type QueueSettings } from './target.js';
 import { openLedgerFor, prepareSweep, type SweepRun } from '../ledger/sweep-run.js';
 import { onStopSignals } from '../dispatch/stop-signals.js';
 import { SweepProgress } from '../dispatch/progress.js';
@@ -26,7 +25,7 @@ export interface QueueSessionResult {
  */
 export async function withQueue<T>(
   sweepPath: string,
-  opts: QueueCliOptions & { out?: string },
+  opts: QueueSettings & { out?: string },
   body: (run: SweepRun, handles: QueueHandles) => Promise<T>,
 ): Promise<T> {
   const prepared = prepareSweep(sweepPath, opts.out);

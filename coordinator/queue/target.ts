@@ -7,6 +7,13 @@ import { UserError } from '../../schemas/errors.js';
 import { queueNameFor, registryKey } from '../../schemas/queue-names.js';
 import { probeRedis, redactedUrl, redisOptions, type RedisSettings } from '../../worker/redis-connection.js';
 
+/** Where a queue command connects, as the command line gives it (`--redis`, `--redis-ca`, `--prefix`). */
+export interface QueueSettings {
+  redis?: string;
+  redisCa?: string;
+  prefix: string;
+}
+
 export interface QueueTarget {
   readonly url: string;
   readonly connection: RedisSettings;
