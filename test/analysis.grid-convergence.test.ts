@@ -1,6 +1,7 @@
 // Grid convergence: Celik et al. 2008 worked example, behaviour flags, and the grouping of sweep runs.
 import { describe, expect, it } from 'vitest';
-import { apparentOrder, convergenceTable, describeGroup, gridConvergence, unwrapAgainst, type ConvergenceRun } from '../coordinator/analysis/grid-convergence.js';
+import { apparentOrder, convergenceTable, describeGroup, gridConvergence, type ConvergenceRun } from '../coordinator/analysis/grid-convergence.js';
+import { unwrapNearDeg } from '../solver/phase.js';
 import { ConvergenceRowSchema } from '../schemas/analysis-rows.js';
 
 // Celik, Ghia, Roache, Freitas, Coleman & Raad, "Procedure for estimation and reporting of uncertainty due to
@@ -113,7 +114,7 @@ describe('convergence rows for a sweep', () => {
           ? 60 - 0.02 * (row.range_m / 1000)
           : -170 - JSON.parse(row.group).frequency_hz / 4000;
       // Phases are compared modulo whole turns.
-      const got = row.output === 'ez_phase_deg' ? unwrapAgainst(exact, row.phi_extrapolated!) : row.phi_extrapolated!;
+      const got = row.output === 'ez_phase_deg' ? unwrapNearDeg(row.phi_extrapolated!, exact) : row.phi_extrapolated!;
       expect(got).toBeCloseTo(exact, 6);
     }
   });
@@ -123,7 +124,7 @@ describe('convergence rows for a sweep', () => {
     const values = JSON.parse(phase.levels_json).map((l: number[]) => l[1]);
     const spread = Math.max(...values) - Math.min(...values);
     expect(spread).toBeLessThan(1);
-    expect(unwrapAgainst(179, -179)).toBe(181);
+    expect(unwrapNearDeg(-179, 179)).toBe(181);
   });
 
   it('when the finest phase is exactly 0° then the relative error is null and the row still fits the schema', () => {

@@ -12,6 +12,7 @@ import { type SensitivityRow } from '../../schemas/analysis-rows.js';
 import type { Cell, FieldRecord, FolderTables, RunRecord } from './read-tables.js';
 import { generatorKind, type Sweep } from '../../schemas/sweep.js';
 import { columnNameFor } from '../../schemas/table-rows.js';
+import { unwrapNearDeg } from '../../solver/phase.js';
 
 export interface AnalysisOptions {
   readonly generatedBy: string;
@@ -110,7 +111,7 @@ function outputsOf(tables: FolderTables, runs: readonly RunRecord[]): Map<string
     if (!name.startsWith('residual_phase_deg')) continue;
     const sorted = [...m.values()].sort((a, b) => a - b);
     const median = sorted[Math.floor(sorted.length / 2)];
-    for (const [job, v] of m) m.set(job, v + 360 * Math.round((median - v) / 360));
+    for (const [job, v] of m) m.set(job, unwrapNearDeg(v, median));
   }
   return outputs;
 }

@@ -11,6 +11,7 @@ import {
   type ConvergenceVerdict,
   type ResolutionAxis,
 } from '../../schemas/analysis-rows.js';
+import { unwrapNearDeg } from '../../solver/phase.js';
 
 export interface GridLevel {
   /** Representative cell size (any unit: only ratios enter). */
@@ -208,10 +209,6 @@ export function cellSizeOf(axis: ResolutionAxis, resolution: number): number {
   return axis === 'cells_per_wavelength' ? 1 / resolution : resolution;
 }
 
-/** Shift each phase by whole turns to lie within 180° of `reference` (degrees). */
-export function unwrapAgainst(reference: number, phaseDeg: number): number {
-  return phaseDeg + 360 * Math.round((reference - phaseDeg) / 360);
-}
 
 function canonicalGroup(params: Readonly<Record<string, ParamValue>>, skip: string): string {
   const keys = Object.keys(params).filter((k) => k !== skip).sort();
@@ -256,7 +253,7 @@ export function convergenceTable(runs: readonly ConvergenceRun[], options: Conve
       if (at.some((r) => r === undefined)) continue;
       for (const output of ConvergenceOutputSchema.options) {
         const raw = at.map((r) => r![output]);
-        const values = output === 'ez_phase_deg' ? raw.map((v) => unwrapAgainst(raw[0], v)) : raw;
+        const values = output === 'ez_phase_deg' ? raw.map((v) => unwrapNearDeg(v, raw[0])) : raw;
         const tolerance = output === 'ez_phase_deg' ? (options.tolerancePhaseDeg ?? 1) : (options.toleranceDb ?? 0.2);
         const result = gridConvergence(
           ordered.map((run, k) => ({ h: cellSizeOf(options.axis, run.resolution), phi: values[k] })),

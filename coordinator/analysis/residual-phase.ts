@@ -1,6 +1,7 @@
 // The residual phase of a run along range: what is left of Ez's phase after the free-space delay, unwrapped, so
 // that runs can be compared and analysed (the sensitivity outputs) and drawn (the report's phase plots).
 import { C0 } from '../../solver/constants.js';
+import { unwrapSequenceDeg } from '../../solver/phase.js';
 
 /** The points of one run, as the analysis and the report hold them. */
 export interface PhaseSeries {
@@ -20,14 +21,7 @@ function wrapDeg(deg: number): number {
  */
 export function residualPhaseDeg(series: PhaseSeries): Array<{ range_m: number; value: number }> {
   const pts = [...series.points].sort((a, b) => a.range_m - b.range_m);
-  const out: Array<{ range_m: number; value: number }> = [];
-  let prev: number | undefined;
-  for (const p of pts) {
-    let v = wrapDeg(p.ez_phase_deg + (360 * series.frequency_hz * p.range_m) / C0);
-    if (prev !== undefined) v += 360 * Math.round((prev - v) / 360);
-    out.push({ range_m: p.range_m, value: v });
-    prev = v;
-  }
-  return out;
+  const unwrapped = unwrapSequenceDeg(pts.map((p) => wrapDeg(p.ez_phase_deg + (360 * series.frequency_hz * p.range_m) / C0)));
+  return pts.map((p, k) => ({ range_m: p.range_m, value: unwrapped[k] }));
 }
 
