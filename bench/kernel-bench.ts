@@ -1,5 +1,6 @@
 // `npm run bench`: single-threaded cell-updates per second of our update kernels on three grid sizes, beside the
-// shared native C reference's `base` variant measured in the same run, and the wall time of one demo solve().
+// shared native C reference's `base` variant measured in the same run, the wall time of one demo solve(), and the
+// start-up time of the command line.
 // A benchmark, not a test: it asserts nothing and prints a table (or `--json`); speed targets are read from it.
 import { execFileSync } from 'node:child_process';
 import { cpus, loadavg } from 'node:os';
@@ -13,6 +14,7 @@ import {
   runNativeReference,
   type NativeReference,
 } from './native-reference.js';
+import { measureStartup, type StartupTimes } from './startup-time.js';
 
 interface GridSize {
   name: string;
@@ -62,6 +64,7 @@ interface BenchReport {
   repeats: number;
   sizes: SizeResult[];
   demo: { description: string; cells: number; steps: number; wallS: number[]; medianWallS: number; mcellsPerS: number };
+  startup: StartupTimes;
 }
 
 function median(xs: readonly number[]): number {
@@ -196,6 +199,8 @@ function printTable(rep: BenchReport): void {
   const d = rep.demo;
   out.push(`demo solve(): ${d.description}`);
   out.push(`  ${d.cells} cells, ${d.steps} steps: ${d.medianWallS.toFixed(2)} s wall (median of ${d.wallS.length}), ${d.mcellsPerS.toFixed(0)} Mcells/s overall`);
+  const st = rep.startup;
+  out.push(`start-up: loamwave --version ${st.versionS.toFixed(3)} s, --help ${st.helpS.toFixed(3)} s (median of ${st.runs} fresh processes; target ≤ 0.3 s)`);
   process.stdout.write(out.join('\n') + '\n');
 }
 
@@ -238,6 +243,8 @@ async function main(): Promise<void> {
     const sizes = SIZES.filter((s) => opts.grids.includes(s.name)).map((s) => benchSize(s, opts.repeats, ref, log));
     log('  demo solve()');
     const demo = benchDemo(opts.repeats);
+    log('  start-up of the command line');
+    const startup = measureStartup();
     const report: BenchReport = {
       date: new Date().toISOString(),
       node: process.version,
@@ -249,6 +256,7 @@ async function main(): Promise<void> {
       repeats: opts.repeats,
       sizes,
       demo,
+      startup,
     };
     if (opts.json) process.stdout.write(JSON.stringify(report, null, 2) + '\n');
     else printTable(report);
