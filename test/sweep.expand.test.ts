@@ -59,6 +59,21 @@ describe('full factorial expansion', () => {
     expect(e.duplicates).toEqual([{ point: 2, job_index: 0, job_id: e.jobs[0].job_id }]);
   });
 
+  it('when flat and spherical geometries are set against earth radii then the flat case runs once, the sphere once per radius', () => {
+    const e = expandSweepDetailed(
+      sweepOf({ vary: { geometry: { values: ['axisymmetric', 'spherical'] }, 'earth.radius_m': { values: [6_371_000, 8_494_667] } } }),
+    );
+    expect(e.points).toBe(4);
+    expect(e.jobs.map((j) => [j.case.geometry, j.case.earth?.radius_m])).toEqual([
+      ['axisymmetric', undefined],
+      ['spherical', 6_371_000],
+      ['spherical', 8_494_667],
+    ]);
+    expect(e.duplicates).toEqual([{ point: 1, job_index: 0, job_id: e.jobs[0].job_id }]);
+    // The flat job is the same job as the flat base case without any earth block.
+    expect(e.jobs[0].job_id).toBe(jobIdFor(parseCase({ ...base, geometry: 'axisymmetric' })));
+  });
+
   it('when an expanded case breaks the case schema then the error names the job, its values and the field', () => {
     const s = sweepOf({ vary: { 'domain.range_m': { values: [60000, 20000] } } });
     let msg = '';

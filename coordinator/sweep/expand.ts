@@ -128,7 +128,7 @@ export function expandSweepDetailed(sweep: Sweep, source = 'sweep'): Expansion {
       params[p] = pt.values[j];
       input = withValueAt(input, steps[j], pt.values[j]);
     });
-    const c = parseCase(input, `${source}: job ${jobs.length} (${describeParams(params)})`);
+    const c = withoutUnusedParts(parseCase(input, `${source}: job ${jobs.length} (${describeParams(params)})`));
     const jobId = jobIdFor(c);
     const seen = byId.get(jobId);
     if (seen !== undefined) {
@@ -140,6 +140,17 @@ export function expandSweepDetailed(sweep: Sweep, source = 'sweep'): Expansion {
     point++;
   }
   return { jobs, points: point, duplicates };
+}
+
+/**
+ * A case without the parts its geometry ignores: a flat geometry (planar, axisymmetric) has no earth radius, so a
+ * sweep that sets flat against sphere and varies the radius runs the flat case once (the other points are
+ * duplicates of it, and `plan` counts them) instead of repeating an identical solve per radius.
+ */
+function withoutUnusedParts(c: Case): Case {
+  if (c.geometry === 'spherical' || c.earth === undefined) return c;
+  const { earth: _ignored, ...flat } = c;
+  return flat as Case;
 }
 
 /** The distinct jobs of a sweep, in expansion order (see `expandSweepDetailed`). */
