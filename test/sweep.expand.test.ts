@@ -70,6 +70,7 @@ describe('full factorial expansion', () => {
       ['spherical', 8_494_667],
     ]);
     expect(e.duplicates).toEqual([{ point: 1, job_index: 0, job_id: e.jobs[0].job_id }]);
+    expect(e.jobs.map((j) => j.params['earth.radius_m'])).toEqual([undefined, 6_371_000, 8_494_667]);
     // The flat job is the same job as the flat base case without any earth block.
     expect(e.jobs[0].job_id).toBe(jobIdFor(parseCase({ ...base, geometry: 'axisymmetric' })));
   });

@@ -51,12 +51,13 @@ const FIELD_ROWS_PER_FILE = 250_000;
 /** The analysis and report read every field row into memory (about 0.5 kB each as JS objects): a Loamwave choice. */
 const ANALYSIS_MAX_FIELD_ROWS = 1_000_000;
 
-/** The column of one varied parameter: DOUBLE when every value is a number, else UTF8. */
+/** The column of one varied parameter: DOUBLE when every value given is a number, else UTF8. */
 export function paramColumns(jobs: readonly ExpandedJob[], sweep: Sweep): Array<ColumnSpec & { path: string }> {
   return Object.keys(sweep.vary).map((path) => ({
     path,
     name: columnNameFor(path),
-    type: jobs.every((j) => typeof j.params[path] === 'number') ? 'DOUBLE' : 'UTF8',
+    // A job may lack a parameter its case ignores (the radius of a flat case): such a cell is null.
+    type: jobs.every((j) => j.params[path] === undefined || typeof j.params[path] === 'number') ? 'DOUBLE' : 'UTF8',
   }));
 }
 

@@ -16,7 +16,10 @@ import {
 } from '../analysis/compute-tables.js';
 import type { FolderTables } from '../analysis/read-tables.js';
 import type { Sweep } from '../../schemas/sweep.js';
-import type { FieldSeries, ReportData, ReportWarning, VariedInput } from './data.js';
+import type { CurvatureRow, FieldSeries, ReportData, ReportWarning, VariedInput } from './data.js';
+import type { Cell } from '../analysis/read-tables.js';
+import { columnNameFor } from '../../schemas/table-rows.js';
+import { unwrapNearDeg } from '../../solver/phase.js';
 
 const RUN_TABLE_COLUMNS = ['job_id', 'status', 'cell_size_m', 'steps', 'cells_total', 'wall_time_s', 'warnings', 'error'];
 
@@ -54,6 +57,47 @@ function variedOf(tables: FolderTables): VariedInput[] {
       distinct: new Set(values.map((v) => String(v))).size,
     };
   });
+}
+
+/** The earth radius the solver uses when a spherical case gives none (the mean radius; schemas/case.ts). */
+const DEFAULT_EARTH_RADIUS_M = 6_371_000;
+
+/**
+ * Pairs of otherwise-equal runs, one over a flat geometry and one over the sphere, and the sphere's field minus the
+ * flat one at each receiver both have. Needs `geometry` among the varied inputs; the radius of a spherical run is its
+ * varied `earth.radius_m`, else the base case's, else the mean radius.
+ */
+function curvatureOf(tables: FolderTables, series: readonly FieldSeries[]): CurvatureRow[] {
+  const sweep = tables.sweep;
+  if (!('geometry' in sweep.vary)) return [];
+  const geometryColumn = columnNameFor('geometry');
+  const radiusColumn = columnNameFor('earth.radius_m');
+  const baseRadius = num((sweep.base as { earth?: { radius_m?: Cell } }).earth?.radius_m as Cell) ?? DEFAULT_EARTH_RADIUS_M;
+  const others = paramColumnsOf(sweep).filter((p) => p.column !== geometryColumn && p.column !== radiusColumn);
+  const groupOf = (s: FieldSeries) => others.map((p) => `${p.path}=${String(s.params[p.column] ?? '')}`).join(', ');
+  const flat = new Map<string, FieldSeries>();
+  for (const s of series) if (s.params[geometryColumn] !== 'spherical' && !flat.has(groupOf(s))) flat.set(groupOf(s), s);
+  const rows: CurvatureRow[] = [];
+  for (const s of series) {
+    if (s.params[geometryColumn] !== 'spherical') continue;
+    const f = flat.get(groupOf(s));
+    if (!f) continue;
+    const radius = num(s.params[radiusColumn]) ?? baseRadius;
+    for (const p of s.points) {
+      const q = f.points.find((x) => x.range_m === p.range_m);
+      if (!q) continue;
+      rows.push({
+        group: groupOf(s),
+        earth_radius_m: radius,
+        range_m: p.range_m,
+        flat_db: q.ez_db_uv_per_m,
+        sphere_db: p.ez_db_uv_per_m,
+        difference_db: p.ez_db_uv_per_m - q.ez_db_uv_per_m,
+        phase_difference_deg: unwrapNearDeg(p.ez_phase_deg - q.ez_phase_deg, 0),
+      });
+    }
+  }
+  return rows.sort((a, b) => (a.group < b.group ? -1 : a.group > b.group ? 1 : a.earth_radius_m - b.earth_radius_m || a.range_m - b.range_m));
 }
 
 function designText(sweep: Sweep): string {
@@ -113,6 +157,7 @@ export function assembleReportData(tables: FolderTables, options: AnalysisOption
     convergence,
     sensitivity,
     sensitivity_note: notes.sensitivityNote ?? null,
+    curvature: curvatureOf(tables, field_series),
     runs: {
       columns,
       rows: tables.runs.map((r) => columns.map((c) => (c === 'job_id' ? String(r[c]).slice(0, 12) : (r[c] ?? null)))),

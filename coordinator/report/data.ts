@@ -55,6 +55,25 @@ export const ReportWarningSchema = z.strictObject({
 });
 export type ReportWarning = z.infer<typeof ReportWarningSchema>;
 
+/**
+ * One receiver of a sweep that sets a flat geometry against a spherical earth: the sphere's field minus the flat
+ * field, for runs otherwise equal. What curvature does, at a glance.
+ */
+export const CurvatureRowSchema = z.strictObject({
+  /** The other varied inputs of the pair, as `path=value` text (empty when only the earth model varies). */
+  group: z.string(),
+  /** Radius of the spherical run, m. */
+  earth_radius_m: z.number(),
+  range_m: z.number(),
+  flat_db: z.number(),
+  sphere_db: z.number(),
+  /** sphere_db − flat_db: negative where the flat earth overstates the field. */
+  difference_db: z.number(),
+  /** Phase of the sphere's Ez minus the flat one's, degrees, within ±180°. */
+  phase_difference_deg: z.number(),
+});
+export type CurvatureRow = z.infer<typeof CurvatureRowSchema>;
+
 export const ReportDataSchema = z.strictObject({
   title: z.string(),
   /** Program and version that made the report, e.g. `loamwave 0.1.0`. */
@@ -82,6 +101,8 @@ export const ReportDataSchema = z.strictObject({
   sensitivity: z.array(SensitivityRowSchema),
   /** How the sensitivity rows were obtained, when the reader needs to know (e.g. which grid level they use). */
   sensitivity_note: z.string().nullable().default(null),
+  /** Flat against sphere, when the sweep varies `geometry` over both (empty otherwise). */
+  curvature: z.array(CurvatureRowSchema).default([]),
   runs: z.strictObject({
     columns: z.array(z.string()),
     rows: z.array(z.array(CellSchema)),

@@ -3,8 +3,8 @@
 import { describeGroup } from '../analysis/grid-convergence.js';
 import { type ConvergenceRow } from '../../schemas/analysis-rows.js';
 import { type SensitivityRow } from '../../schemas/analysis-rows.js';
-import { ReportDataSchema, type Cell, type ReportData, type ReportDataInput, type ReportWarning } from './data.js';
-import { convergencePlots, fieldPlots, renderSvg, sensitivityPlots, type Plot } from './plots.js';
+import { ReportDataSchema, type Cell, type CurvatureRow, type ReportData, type ReportDataInput, type ReportWarning } from './data.js';
+import { convergencePlots, curvaturePlots, fieldPlots, renderSvg, sensitivityPlots, type Plot } from './plots.js';
 
 /** Most rows shown in the runs, convergence and sensitivity tables and in the warnings list. */
 export const MAX_TABLE_ROWS = 200;
@@ -103,6 +103,23 @@ function convergenceTableHtml(rows: readonly ConvergenceRow[]): string {
   return table(columns, body, rows.length, 'convergence');
 }
 
+/** Where each earth model stands; the report says it beside the comparison (see README "Earth models"). */
+const CURVATURE_NOTE =
+  'A flat earth overstates the ground wave beyond about a hundred kilometres at LF (a few hundred at VLF), where the ' +
+  'field diffracts round the curve; the spherical model follows it. An effective radius of 4/3 of the real one is the ' +
+  'usual stand-in for the bending of the wave by a standard atmosphere (common practice). Neither model includes ' +
+  'terrain, the geomagnetic field or the day/night changes of the ionosphere; where the sky wave dominates (VLF/LF ' +
+  'beyond a few hundred kilometres at night) a receiver will not measure these numbers.';
+
+function curvatureTableHtml(rows: readonly CurvatureRow[]): string {
+  return table(
+    ['group', 'earth radius (km)', 'range (km)', 'flat (dB µV/m)', 'sphere (dB µV/m)', 'sphere − flat (dB)', 'phase difference (°)'],
+    rows.map((r) => [r.group || 'all runs', r.earth_radius_m / 1000, r.range_m / 1000, r.flat_db, r.sphere_db, r.difference_db, r.phase_difference_deg]),
+    rows.length,
+    'curvature',
+  );
+}
+
 function sensitivityTableHtml(rows: readonly SensitivityRow[]): string {
   return table(
     ['output', 'parameter', 'measure', 'value', 'interval', 'samples', 'R²'],
@@ -184,6 +201,11 @@ export async function buildReportHtml(input: ReportDataInput): Promise<string> {
   const fieldFigures = await Promise.all(fieldPlots(data.field_series, data.sweep.varied).map(figure));
   const convFigures = await Promise.all(convergencePlots(data.convergence).map(figure));
   const sensFigures = await Promise.all(sensitivityPlots(data.sensitivity).map(figure));
+  const curvatureFigures = await Promise.all(curvaturePlots(data.curvature).map(figure));
+  const curvature =
+    data.curvature.length === 0
+      ? ''
+      : `<section id="curvature"><h2>Earth curvature</h2><p class="note">${escapeHtml(CURVATURE_NOTE)}</p><div class="plots">${curvatureFigures.join('\n')}</div>${curvatureTableHtml(data.curvature)}</section>`;
   const fields =
     data.field_series.length === 0
       ? '<p>No finished runs yet.</p>'
@@ -207,10 +229,11 @@ export async function buildReportHtml(input: ReportDataInput): Promise<string> {
 </head>
 <body>
 <header><h1>${escapeHtml(data.title)}</h1><p>Ground-wave sensitivity sweep report · ${escapeHtml(data.generated_by)}</p></header>
-<nav><a href="#summary">Summary</a><a href="#cautions">Cautions</a><a href="#fields">Field strength and phase</a><a href="#convergence">Grid convergence</a><a href="#sensitivity">Sensitivity</a><a href="#runs">Runs</a><a href="#warnings">Warnings</a></nav>
+<nav><a href="#summary">Summary</a><a href="#cautions">Cautions</a><a href="#fields">Field strength and phase</a>${data.curvature.length > 0 ? '<a href="#curvature">Earth curvature</a>' : ''}<a href="#convergence">Grid convergence</a><a href="#sensitivity">Sensitivity</a><a href="#runs">Runs</a><a href="#warnings">Warnings</a></nav>
 <main>
 ${summarySection(data)}
 <section id="fields"><h2>Field strength and phase against range</h2>${fields}</section>
+${curvature}
 <section id="convergence"><h2>Grid convergence</h2>${convergence}</section>
 <section id="sensitivity"><h2>Sensitivity</h2>${sensitivity}</section>
 <section id="runs"><h2>Runs</h2>${table(data.runs.columns, data.runs.rows, data.runs.total)}</section>

@@ -5,7 +5,7 @@ import { compile, type TopLevelSpec } from 'vega-lite';
 import { C0 } from '../../solver/constants.js';
 import { type ConvergenceRow } from '../../schemas/analysis-rows.js';
 import { type SensitivityRow } from '../../schemas/analysis-rows.js';
-import type { FieldSeries, VariedInput } from './data.js';
+import type { CurvatureRow, FieldSeries, VariedInput } from './data.js';
 import { residualPhaseDeg } from '../analysis/residual-phase.js';
 
 /** One plot as the report embeds it. */
@@ -101,6 +101,42 @@ export function fieldPlots(series: readonly FieldSeries[], varied: readonly Vari
     }
   }
   return plots;
+}
+
+/** What curvature does: sphere minus flat field strength against range, one line per earth radius and group. */
+export function curvaturePlots(rows: readonly CurvatureRow[]): Plot[] {
+  if (rows.length === 0) return [];
+  const values = rows.map((r) => ({
+    range_km: r.range_m / 1000,
+    difference: r.difference_db,
+    radius: `${(r.earth_radius_m / 1000).toFixed(0)} km${r.group ? `, ${r.group}` : ''}`,
+  }));
+  return [
+    {
+      id: 'curvature-db',
+      title: 'What the curvature of the earth does to field strength',
+      caption:
+        'Field strength over the spherical earth minus that over the flat earth, for otherwise-equal runs; one line per earth radius. Below zero, the flat earth overstates the field.',
+      spec: {
+        $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
+        width: 440,
+        height: 240,
+        data: { values },
+        layer: [
+          { mark: { type: 'rule', strokeDash: [4, 3], color: '#888' }, encoding: { y: { datum: 0 } } },
+          {
+            mark: { type: 'line', point: { size: 24 }, strokeWidth: 1.5 },
+            encoding: {
+              x: { field: 'range_km', type: 'quantitative', title: 'range (km)' },
+              y: { field: 'difference', type: 'quantitative', title: 'sphere − flat (dB)' },
+              color: { field: 'radius', type: 'nominal', title: 'earth radius', scale: { scheme: 'viridis' } },
+            },
+          },
+        ],
+        config: CONFIG,
+      } as TopLevelSpec,
+    },
+  ];
 }
 
 const OUTPUT_LABEL: Record<string, string> = { ez_db_uv_per_m: 'Ez (dB µV/m)', ez_phase_deg: 'phase of Ez (°)' };

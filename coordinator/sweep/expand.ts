@@ -129,6 +129,8 @@ export function expandSweepDetailed(sweep: Sweep, source = 'sweep'): Expansion {
       input = withValueAt(input, steps[j], pt.values[j]);
     });
     const c = withoutUnusedParts(parseCase(input, `${source}: job ${jobs.length} (${describeParams(params)})`));
+    // A flat case has no radius: its runs.parquet row leaves the radius column null rather than repeat a value.
+    if (c.earth === undefined) for (const p of paths) if (p.startsWith('earth.')) delete params[p];
     const jobId = jobIdFor(c);
     const seen = byId.get(jobId);
     if (seen !== undefined) {
