@@ -1,23 +1,19 @@
 // Connecting to Redis: URLs (with user, password, database, TLS) become connection settings or one-line errors;
 // a real password-protected server is reached with the password from the URL and refused without it; a server
 // that may evict keys draws a warning; priorities from cost make BullMQ serve the longest job first.
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { Redis } from 'ioredis';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { UserError } from '../schemas/errors.js';
 import { priorityForCost, PRIORITY_LIMIT } from '../coordinator/queue/submit.js';
 import { QueueHandles, queueTarget } from '../coordinator/queue/target.js';
 import { queueNameFor } from '../schemas/queue-names.js';
 import { redactedUrl, redisOptions, redisServerWarnings } from '../worker/redis-connection.js';
-import { removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
+import { queueFixture, scratchFolder } from './helpers/queue-fixture.js';
+import { startRedis } from './helpers/redis.js';
 
-let scratch: string;
-beforeAll(() => {
-  scratch = mkdtempSync(join(tmpdir(), 'loamwave-conn-'));
-});
-afterAll(() => rmSync(scratch, { recursive: true, force: true }));
+const scratch = scratchFolder('conn');
 
 function userErrorOf(f: () => unknown): UserError {
   try {
@@ -45,7 +41,7 @@ describe('redisOptions', () => {
   });
 
   it('when a CA file is given for rediss then its certificate is used to check the server', () => {
-    const ca = join(scratch, 'ca.pem');
+    const ca = join(scratch.path, 'ca.pem');
     writeFileSync(ca, '-----BEGIN CERTIFICATE-----\nMIIB\n-----END CERTIFICATE-----\n');
     const o = redisOptions({ url: 'rediss://queue.example:6380', caFile: ca });
     expect(String(o.tls?.ca)).toContain('BEGIN CERTIFICATE');
@@ -84,18 +80,12 @@ describe('priorityForCost', () => {
 });
 
 describe('with a real Redis', () => {
-  let plain: TestRedis;
-  const prefix = uniquePrefix('conn');
-  beforeAll(async () => {
-    plain = await startRedis();
-  });
-  afterAll(async () => {
-    await removeKeys(plain.url, prefix);
-    await plain.stop();
-  });
+  // Nothing here spawns the command line, so nothing needs compiling.
+  const fx = queueFixture('conn', { compile: false });
+  const prefix = fx.prefix;
 
   it('when jobs are submitted with cost priorities then BullMQ lists the costliest first', async () => {
-    const target = queueTarget({ redis: plain.url, prefix }, 'priority-order');
+    const target = queueTarget({ redis: fx.url, prefix }, 'priority-order');
     const { handles } = await QueueHandles.open(target);
     try {
       const costs = { small: 6e5, big: 3e9, mid: 2e7 };
@@ -112,7 +102,7 @@ describe('with a real Redis', () => {
   it('when the server may evict keys then a warning names noeviction, and a noeviction server draws none about it', async () => {
     const lru = await startRedis(['--maxmemory-policy', 'allkeys-lru']);
     const a = new Redis(lru.url);
-    const b = new Redis(plain.url);
+    const b = new Redis(fx.url);
     try {
       expect((await redisServerWarnings(a)).join(' ')).toContain('set it to noeviction');
       const policy = (await b.config('GET', 'maxmemory-policy')) as string[];

@@ -1,42 +1,20 @@
 // `run --redis` end to end with a deterministic failure among the jobs: the failing case is not retried (it fails
 // the same way every time), its reason reaches the ledger and runs.parquet, the good case is done, and the run
 // exits non-zero after writing the outputs.
-import type { ChildProcess } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { DuckDBInstance } from '@duckdb/node-api';
 import Database from 'better-sqlite3';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { killAll, startCli } from './helpers/cli-process.js';
-import { ensureCompiled } from './helpers/compiled.js';
-import { removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
+import { describe, expect, it } from 'vitest';
+import { queueFixture } from './helpers/queue-fixture.js';
 
-let redis: TestRedis;
-let scratch: string;
-const prefix = uniquePrefix('failures');
-const children: ChildProcess[] = [];
-
-beforeAll(async () => {
-  ensureCompiled();
-  redis = await startRedis();
-  scratch = mkdtempSync(join(tmpdir(), 'loamwave-failures-'));
-});
-
-afterAll(async () => {
-  killAll(children);
-  await removeKeys(redis.url, prefix);
-  await redis.stop();
-  rmSync(scratch, { recursive: true, force: true });
-});
-
-const start = (args: string[]) => startCli(args, scratch, children);
+const fx = queueFixture('failures');
 
 describe('run --redis with a failing case', () => {
   it('when one case is outside the impedance model then it fails once with its reason and the good case is done', async () => {
     // At 300 kHz, σ = 1e-5 S/m, εr 15: loss tangent σ/(ωε0εr) ≈ 0.04 < 1, which the solver refuses every time;
     // σ = 0.01 S/m gives about 40, inside the model.
-    const sweep = join(scratch, 'saltmarsh-lf.yaml');
+    const sweep = join(fx.scratch, 'saltmarsh-lf.yaml');
     writeFileSync(
       sweep,
       [
@@ -52,10 +30,10 @@ describe('run --redis with a failing case', () => {
         '',
       ].join('\n'),
     );
-    const out = join(scratch, 'out');
-    const q = ['--redis', redis.url, '--prefix', prefix];
-    const worker = start(['worker', ...q, '--sweep', 'saltmarsh-lf']);
-    const run = start(['run', sweep, '--out', out, '--json', ...q]);
+    const out = join(fx.scratch, 'out');
+    const q = fx.queueArgs();
+    const worker = fx.start(['worker', ...q, '--sweep', 'saltmarsh-lf']);
+    const run = fx.start(['run', sweep, '--out', out, '--json', ...q]);
     const { code } = await run.exited;
     expect(code, run.log()).toBe(1);
     expect(run.log()).toContain('1 job(s) failed');

@@ -1,36 +1,16 @@
 // The Redis path end to end with real processes: a 20-job sweep submitted to a real Redis, solved by two spawned
 // worker processes and collected into the ledger gives results bit-identical to the embedded run; submitting
 // again queues nothing; once collected, the sweep leaves no jobs behind in Redis.
-import { spawn, type ChildProcess } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { CLI, killAll, runCli, until } from './helpers/cli-process.js';
-import { ensureCompiled } from './helpers/compiled.js';
-import { keysUnder, removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
+import { describe, expect, it } from 'vitest';
+import { until } from './helpers/cli-process.js';
+import { queueFixture } from './helpers/queue-fixture.js';
+import { keysUnder } from './helpers/redis.js';
 
-
-let redis: TestRedis;
-let scratch: string;
-const prefix = uniquePrefix('roundtrip');
-const workers: ChildProcess[] = [];
-
-beforeAll(async () => {
-  ensureCompiled();
-  redis = await startRedis();
-  scratch = mkdtempSync(join(tmpdir(), 'loamwave-roundtrip-'));
-});
-
-afterAll(async () => {
-  killAll(workers);
-  await removeKeys(redis.url, prefix);
-  await redis.stop();
-  rmSync(scratch, { recursive: true, force: true });
-});
-
-const cli = (args: string[]) => runCli(args, scratch);
+const fx = queueFixture('roundtrip');
+const cli = fx.run;
 
 /** Results by job id from a ledger, wall time removed (the one field that differs between runs). */
 function resultsOf(outDir: string): Map<string, unknown> {
@@ -48,7 +28,7 @@ function resultsOf(outDir: string): Map<string, unknown> {
 
 describe('queue round trip', () => {
   it('when 20 jobs go through submit, two worker processes and collect then the results equal the embedded run bit for bit', async () => {
-    const sweep = join(scratch, 'quendravel-grid.yaml');
+    const sweep = join(fx.scratch, 'quendravel-grid.yaml');
     writeFileSync(
       sweep,
       [
@@ -66,21 +46,16 @@ describe('queue round trip', () => {
         '',
       ].join('\n'),
     );
-    const embeddedOut = join(scratch, 'embedded');
-    const queuedOut = join(scratch, 'queued');
-    const q = ['--redis', redis.url, '--prefix', prefix];
+    const embeddedOut = join(fx.scratch, 'embedded');
+    const queuedOut = join(fx.scratch, 'queued');
+    const q = fx.queueArgs();
 
     const embedded = await cli(['run', sweep, '--out', embeddedOut, '--workers', '2', '--json', '--no-report']);
     expect(embedded.code, embedded.stderr).toBe(0);
 
     // Both workers serve the sweep's queue before anything is queued, so both take part.
-    const logs = ['', ''];
-    for (let i = 0; i < 2; i++) {
-      const w = spawn(process.execPath, [CLI, 'worker', ...q, '--concurrency', '1', '--sweep', 'quendravel-grid'], { cwd: scratch, stdio: ['ignore', 'ignore', 'pipe'] });
-      w.stderr!.on('data', (d) => (logs[i] += d));
-      workers.push(w);
-    }
-    await until('both workers ready', () => logs.every((l) => l.includes('worker ready')));
+    const workers = [0, 1].map(() => fx.start(['worker', ...q, '--concurrency', '1', '--sweep', 'quendravel-grid']));
+    await until('both workers ready', () => workers.every((w) => w.log().includes('worker ready')));
 
     const first = await cli(['submit', sweep, '--out', queuedOut, '--json', ...q]);
     expect(first.code, first.stderr).toBe(0);
@@ -93,7 +68,7 @@ describe('queue round trip', () => {
     expect(JSON.parse(collected.stdout)).toMatchObject({ committed: 20, failed: 0, complete: true });
 
     // Both worker processes took part (each logs the jobs it finished).
-    for (const log of logs) expect(log).toMatch(/job [0-9a-f]{12} done/);
+    for (const w of workers) expect(w.log()).toMatch(/job [0-9a-f]{12} done/);
 
     const a = resultsOf(embeddedOut);
     const b = resultsOf(queuedOut);
@@ -103,14 +78,13 @@ describe('queue round trip', () => {
     for (const [id, r] of a) expect(b.get(id), id).toStrictEqual(r);
 
     // Everything collected: no job hash of the sweep is left in Redis, and a new submit queues nothing.
-    const left = (await keysUnder(redis.url, prefix)).filter((k) => /:[0-9a-f]{64}$/.test(k));
+    const left = (await keysUnder(fx.url, fx.prefix)).filter((k) => /:[0-9a-f]{64}$/.test(k));
     expect(left).toEqual([]);
     const after = await cli(['submit', sweep, '--out', queuedOut, '--json', ...q]);
     expect(JSON.parse(after.stdout)).toMatchObject({ added: 0, already_queued: 0, finished: 20 });
 
     // SIGTERM: each worker finishes (nothing is running) and exits 0.
-    const exits = workers.map((w) => new Promise<number | null>((resolve) => w.once('exit', (code) => resolve(code))));
-    for (const w of workers) w.kill('SIGTERM');
-    expect(await Promise.all(exits)).toEqual([0, 0]);
+    for (const w of workers) w.child.kill('SIGTERM');
+    expect((await Promise.all(workers.map((w) => w.exited))).map((e) => e.code)).toEqual([0, 0]);
   });
 });

@@ -1,38 +1,17 @@
 // Ctrl-C on `run --redis`: the coordinator stops following and exits 130, the jobs stay queued in Redis for the
 // workers, and a later `collect --follow` (with a worker running) brings them home without queueing twins.
-import type { ChildProcess } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { Queue } from 'bullmq';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { queueNameFor } from '../schemas/queue-names.js';
-import { redisOptions } from '../worker/redis-connection.js';
-import { killAll, runCli, startCli, until } from './helpers/cli-process.js';
-import { ensureCompiled } from './helpers/compiled.js';
-import { removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
+import { describe, expect, it } from 'vitest';
+import { until } from './helpers/cli-process.js';
+import { queueFixture } from './helpers/queue-fixture.js';
 
-let redis: TestRedis;
-let scratch: string;
-const prefix = uniquePrefix('stop');
-const children: ChildProcess[] = [];
-
-beforeAll(async () => {
-  ensureCompiled();
-  redis = await startRedis();
-  scratch = mkdtempSync(join(tmpdir(), 'loamwave-stop-'));
-});
-afterAll(async () => {
-  killAll(children);
-  await removeKeys(redis.url, prefix);
-  await redis.stop();
-  rmSync(scratch, { recursive: true, force: true });
-});
+const fx = queueFixture('stop');
 
 describe('run --redis stopped with Ctrl-C', () => {
   it('when the coordinator gets SIGINT then it exits 130, the jobs stay queued, and collect finishes them later', async () => {
     const name = 'ashby-stop';
-    const sweep = join(scratch, `${name}.json`);
+    const sweep = join(fx.scratch, `${name}.json`);
     writeFileSync(
       sweep,
       JSON.stringify({
@@ -47,23 +26,23 @@ describe('run --redis stopped with Ctrl-C', () => {
         vary: { 'ground.segments[0].conductivity_s_per_m': { values: [0.001, 0.01, 0.1] } },
       }),
     );
-    const out = join(scratch, 'out');
-    const q = ['--redis', redis.url, '--prefix', prefix];
-    const run = startCli(['run', sweep, '--out', out, '--no-report', ...q], scratch, children);
+    const out = join(fx.scratch, 'out');
+    const q = fx.queueArgs();
+    const run = fx.start(['run', sweep, '--out', out, '--no-report', ...q]);
     await until('the jobs to be queued', () => run.log().includes('3 job(s) queued'));
     run.child.kill('SIGINT');
     expect((await run.exited).code, run.log()).toBe(130);
     expect(run.log()).toContain('the jobs stay queued');
 
-    const queue = new Queue(queueNameFor(name), { connection: redisOptions({ url: redis.url }), prefix });
+    const queue = fx.openQueue(name);
     try {
       expect(await queue.getJobCountByTypes('prioritized', 'waiting')).toBe(3);
     } finally {
-      await queue.close();
+      await fx.close(queue);
     }
 
-    const worker = startCli(['worker', ...q, '--sweep', name], scratch, children);
-    const collected = await runCli(['collect', sweep, '--out', out, '--follow', '--json', '--no-report', ...q], scratch);
+    const worker = fx.start(['worker', ...q, '--sweep', name]);
+    const collected = await fx.run(['collect', sweep, '--out', out, '--follow', '--json', '--no-report', ...q]);
     expect(collected.code, collected.stderr).toBe(0);
     expect(JSON.parse(collected.stdout)).toMatchObject({ committed: 3, complete: true, counts: { done: 3 } });
     worker.child.kill('SIGTERM');

@@ -1,19 +1,13 @@
 // Fault injection on the Redis path with real processes: a worker killed with SIGKILL mid-job leaves the job to
 // the other worker (short lock and stall intervals so this ends in seconds), and a worker told to stop twice
 // cancels its case and hands the job back to the queue instead of failing it.
-import type { ChildProcess } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
-import { Queue } from 'bullmq';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { queueNameFor } from '../schemas/queue-names.js';
-import { redisOptions } from '../worker/redis-connection.js';
+import { describe, expect, it } from 'vitest';
 import { runCase } from '../worker/run-case.js';
-import { killAll, startCli, until } from './helpers/cli-process.js';
-import { ensureCompiled } from './helpers/compiled.js';
-import { removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
+import { until } from './helpers/cli-process.js';
+import { queueFixture } from './helpers/queue-fixture.js';
 
 /** One job of about 4 s alone on this machine (48 cells per wavelength over 150 km × 40 km). */
 const slowBase = {
@@ -24,40 +18,23 @@ const slowBase = {
   receivers: { ranges_m: [10000, 30000, 100000] },
 };
 
-let redis: TestRedis;
-let scratch: string;
-const prefixes: string[] = [];
-const children: ChildProcess[] = [];
-
-beforeAll(async () => {
-  ensureCompiled();
-  redis = await startRedis();
-  scratch = mkdtempSync(join(tmpdir(), 'loamwave-kill-'));
-});
-
-afterAll(async () => {
-  killAll(children);
-  for (const p of prefixes) await removeKeys(redis.url, p);
-  await redis.stop();
-  rmSync(scratch, { recursive: true, force: true });
-});
-
-const start = (args: string[]) => startCli(args, scratch, children);
+// Each test takes a key prefix of its own (fx.newPrefix); the fixture removes their keys afterwards.
+const fx = queueFixture('kill');
+const start = fx.start;
 
 function writeSweep(name: string): string {
-  const path = join(scratch, `${name}.json`);
+  const path = join(fx.scratch, `${name}.json`);
   writeFileSync(path, JSON.stringify({ name, base: slowBase }));
   return path;
 }
 
 describe('workers under faults', () => {
   it('when a worker is killed with SIGKILL mid-job then the other worker takes the job over and its result is exact', async () => {
-    const prefix = uniquePrefix('kill');
-    prefixes.push(prefix);
+    const prefix = fx.newPrefix('kill');
     const name = 'brackwater-kill';
     const sweep = writeSweep(name);
-    const out = join(scratch, 'out-kill');
-    const q = ['--redis', redis.url, '--prefix', prefix];
+    const out = join(fx.scratch, 'out-kill');
+    const q = fx.queueArgs(prefix);
     const fast = ['--lock-ms', '2000', '--stalled-interval-ms', '1000', '--sweep', name];
 
     const a = start(['worker', ...q, ...fast]);
@@ -98,12 +75,11 @@ describe('workers under faults', () => {
   });
 
   it('when a worker gets SIGTERM twice mid-job then it exits at once and the job waits in the queue, not failed', async () => {
-    const prefix = uniquePrefix('handback');
-    prefixes.push(prefix);
+    const prefix = fx.newPrefix('handback');
     const name = 'brackwater-handback';
     const sweep = writeSweep(name);
-    const out = join(scratch, 'out-handback');
-    const q = ['--redis', redis.url, '--prefix', prefix];
+    const out = join(fx.scratch, 'out-handback');
+    const q = fx.queueArgs(prefix);
 
     const w = start(['worker', ...q, '--sweep', name]);
     await until('the worker ready', () => w.log().includes('worker ready'));
@@ -116,14 +92,14 @@ describe('workers under faults', () => {
     expect((await w.exited).code, w.log()).toBe(0);
     expect(w.log()).not.toMatch(/done$/m);
 
-    const queue = new Queue(queueNameFor(name), { connection: redisOptions({ url: redis.url }), prefix });
+    const queue = fx.openQueue(name, prefix);
     try {
       const jobs = await queue.getJobs(['waiting', 'prioritized', 'active', 'failed', 'completed', 'delayed']);
       expect(jobs).toHaveLength(1);
       expect(['waiting', 'prioritized']).toContain(await jobs[0].getState());
       expect(jobs[0].attemptsMade).toBe(0);
     } finally {
-      await queue.close();
+      await fx.close(queue);
     }
   });
 });

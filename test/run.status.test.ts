@@ -1,34 +1,17 @@
 // `loamwave status`: counts by state from the ledger, the recent rate and ETA, and with --redis what the queue
 // holds; it reads only, and a sweep never run is one clear line.
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { rateAndEta } from '../coordinator/commands/status.js';
 import type { LedgerJob } from '../coordinator/ledger/ledger.js';
-import { runCliSync } from './helpers/cli-process.js';
-import { ensureCompiled } from './helpers/compiled.js';
-import { removeKeys, startRedis, uniquePrefix, type TestRedis } from './helpers/redis.js';
+import { queueFixture } from './helpers/queue-fixture.js';
 
-let scratch: string;
-let redis: TestRedis;
-const prefix = uniquePrefix('status');
-
-beforeAll(async () => {
-  ensureCompiled();
-  scratch = mkdtempSync(join(tmpdir(), 'loamwave-status-'));
-  redis = await startRedis();
-});
-afterAll(async () => {
-  await removeKeys(redis.url, prefix);
-  await redis.stop();
-  rmSync(scratch, { recursive: true, force: true });
-});
-
-const cli = (args: string[]) => runCliSync(args, scratch);
+const fx = queueFixture('status');
+const cli = (args: string[]) => fx.runSync(args);
 
 function sweepFile(name: string, values: number[]): string {
-  const p = join(scratch, `${name}.json`);
+  const p = join(fx.scratch, `${name}.json`);
   writeFileSync(
     p,
     JSON.stringify({
@@ -79,7 +62,7 @@ describe('rateAndEta', () => {
 
 describe('loamwave status', () => {
   it('when the sweep was never run then one line says to run or submit it first', () => {
-    const r = cli(['status', sweepFile('tarnbeck-never', [0.001, 0.01]), '--out', join(scratch, 'none')]);
+    const r = cli(['status', sweepFile('tarnbeck-never', [0.001, 0.01]), '--out', join(fx.scratch, 'none')]);
     expect(r.code).toBe(2);
     expect(r.stderr.trim()).toMatch(/^error: tarnbeck-never: no ledger in .*; run or submit the sweep first/);
     expect(r.stderr.trim().split('\n')).toHaveLength(1);
@@ -87,7 +70,7 @@ describe('loamwave status', () => {
 
   it('when a sweep has run then the counts show every job done, and with --redis after a submit the queue holds the rest', () => {
     const sweep = sweepFile('tarnbeck', [0.001, 0.01]);
-    const out = join(scratch, 'out');
+    const out = join(fx.scratch, 'out');
     expect(cli(['run', sweep, '--out', out, '--no-report']).code).toBe(0);
     const done = JSON.parse(cli(['status', sweep, '--out', out, '--json']).stdout);
     expect(done).toMatchObject({ sweep: 'tarnbeck', jobs: 2, counts: { done: 2, failed: 0, pending: 0 }, eta_s: 0 });
@@ -95,13 +78,13 @@ describe('loamwave status', () => {
 
     // A wider sweep in the same folder: two new jobs, submitted but not solved (no worker runs here).
     const wider = sweepFile('tarnbeck', [0.001, 0.01, 0.03, 0.1]);
-    expect(cli(['submit', wider, '--out', out, '--redis', redis.url, '--prefix', prefix]).code).toBe(0);
-    const r = cli(['status', wider, '--out', out, '--redis', redis.url, '--prefix', prefix, '--json']);
+    expect(cli(['submit', wider, '--out', out, ...fx.queueArgs()]).code).toBe(0);
+    const r = cli(['status', wider, '--out', out, ...fx.queueArgs(), '--json']);
     expect(r.code, r.stderr).toBe(0);
     const s = JSON.parse(r.stdout);
     expect(s.counts).toMatchObject({ done: 2, queued: 2 });
     expect(s.queue).toMatchObject({ name: 'sweep-tarnbeck', counts: { prioritized: 2, active: 0, completed: 0 }, workers: 0 });
-    const text = cli(['status', wider, '--out', out, '--redis', redis.url, '--prefix', prefix]).stdout;
+    const text = cli(['status', wider, '--out', out, ...fx.queueArgs()]).stdout;
     expect(text).toMatch(/^tarnbeck: 2 of 4 done, 0 failed, 0 running, 2 queued, 0 pending$/m);
     expect(text).toMatch(/^queue sweep-tarnbeck: 0 waiting, 2 prioritized/m);
   });

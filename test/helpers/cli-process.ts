@@ -37,10 +37,9 @@ export interface Background {
   readonly exited: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
 }
 
-/** Start `loamwave args…` in the background; `track` collects it for killing in afterAll. */
-export function startCli(args: string[], cwd: string, track?: ChildProcess[]): Background {
+/** Start `loamwave args…` in the background (the queue fixture's `start` also kills it after the tests). */
+export function startCli(args: string[], cwd: string): Background {
   const child = spawn(process.execPath, [CLI, ...args], { cwd, stdio: ['ignore', 'pipe', 'pipe'] });
-  track?.push(child);
   let text = '';
   child.stdout!.on('data', (d) => (text += d));
   child.stderr!.on('data', (d) => (text += d));
@@ -48,11 +47,6 @@ export function startCli(args: string[], cwd: string, track?: ChildProcess[]): B
     child.once('exit', (code, signal) => resolve({ code, signal })),
   );
   return { child, log: () => text, exited };
-}
-
-/** Kill every tracked process still running (afterAll). */
-export function killAll(children: readonly ChildProcess[]): void {
-  for (const c of children) if (c.exitCode === null && c.signalCode === null) c.kill('SIGKILL');
 }
 
 /** Poll `test` every 50 ms until it holds; fail naming `what` after `timeoutMs`. */
