@@ -64,7 +64,7 @@ function buildData(): ReportData {
   );
   return ReportDataSchema.parse({
     title: 'Loamwave report: Ilvandreque VLF transmitter sweep',
-    generated_by: 'loamwave 0.1.0',
+    generated_by: 'loamwave 1.0.0',
     sweep: {
       name: 'ilvandreque-vlf',
       description: 'Demo sweep over the invented Ilvandreque–Tessarquin path: frequency and ground constants.',

@@ -76,7 +76,7 @@ export type CurvatureRow = z.infer<typeof CurvatureRowSchema>;
 
 export const ReportDataSchema = z.strictObject({
   title: z.string(),
-  /** Program and version that made the report, e.g. `loamwave 0.1.0`. */
+  /** Program and version that made the report, e.g. `loamwave 1.0.0`. */
   generated_by: z.string(),
   sweep: z.strictObject({
     name: z.string(),
