@@ -9,9 +9,8 @@ import { main } from '../coordinator/cli.js';
 import { Ledger } from '../coordinator/ledger/ledger.js';
 import { writeOutputs } from '../coordinator/outputs/tables.js';
 import { saltelliDesign } from '../coordinator/sampling/saltelli-layout.js';
-import { computeSensitivity } from '../coordinator/analysis/compute-tables.js';
+import { computeSensitivity, type Notes } from '../coordinator/analysis/compute-tables.js';
 import type { FolderTables } from '../coordinator/analysis/read-tables.js';
-import type { ReportWarning } from '../coordinator/report/data.js';
 import { expandSweep } from '../coordinator/sweep/expand.js';
 import { parseSweep, parseSweepText } from '../coordinator/sweep/file.js';
 import { solve } from '../solver/index.js';
@@ -165,7 +164,7 @@ design: {kind: saltelli, samples: ${n}, seed: 3}
       convergence: null,
       sensitivity: null,
     };
-    const notes = { warnings: [] as ReportWarning[] };
+    const notes: Notes = { warnings: [] };
     const rows = computeSensitivity(tables, notes).filter((r) => r.output === 'ez_db_uv_per_m@10km');
     // The residual phase of these runs is the same everywhere (one frequency, phase 0): it has nothing to apportion.
     expect(notes.warnings.map((w) => w.message)).toEqual([
@@ -179,7 +178,7 @@ design: {kind: saltelli, samples: ${n}, seed: 3}
 
     // With one run failed the estimators cannot be used: no rows, and one warning saying what to do.
     const short = { ...tables, runs: tables.runs.map((r, k) => (k === 7 ? { ...r, status: 'failed' } : r)) };
-    const shortNotes = { warnings: [] as ReportWarning[] };
+    const shortNotes: Notes = { warnings: [] };
     expect(computeSensitivity(short, shortNotes)).toEqual([]);
     expect(shortNotes.warnings).toHaveLength(1);
     expect(shortNotes.warnings[0].message).toMatch(/1 of 5120 Saltelli runs have no result/);
