@@ -140,7 +140,7 @@ export function queueFixture(label: string, options: QueueFixtureOptions = {}): 
         return c.exited;
       }] as const),
       ...queues.map((q) => [`closing queue ${q.name}`, () => q.close()] as const),
-      ...(redis ? prefixes.map((p) => [`removing the keys under ${p}:`, () => removeKeys(redis!.url, p)] as const) : []),
+      ...(redis ? prefixes.map((p) => [`removing the keys ${p}:*`, () => removeKeys(redis!.url, p)] as const) : []),
       ...servers.map((s) => [`stopping the throwaway Redis at ${s.url}`, () => s.stop()] as const),
       ...(redis ? [[`stopping the test Redis`, () => redis!.stop()] as const] : []),
       ...(scratch ? [[`removing ${scratch}`, () => rmSync(scratch!, { recursive: true, force: true })] as const] : []),
