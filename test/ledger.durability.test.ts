@@ -109,6 +109,27 @@ describe('ledger', () => {
     expect(l.counts()).toEqual({ pending: 3, queued: 0, running: 0, done: 0, failed: 0 });
   });
 
+  it('when a job or result changes then the revision moves, and when nothing changes it stays, across reopening', () => {
+    const dir = freshDir();
+    const l = open(dir);
+    const r0 = l.revision();
+    const js = jobs();
+    l.addJobs(js);
+    const r1 = l.revision();
+    expect(r1).toBeGreaterThan(r0);
+    l.addJobs(js); // nothing new
+    l.resetInterrupted({ includeQueued: true }); // nothing running or queued
+    expect(l.revision()).toBe(r1);
+    l.commitResult(resultFor(js[0]));
+    const r2 = l.revision();
+    expect(r2).toBeGreaterThan(r1);
+    l.markFailed(js[1].job_id, 'diverged', 1);
+    expect(l.revision()).toBeGreaterThan(r2);
+    const last = l.revision();
+    l.close();
+    expect(open(dir).revision()).toBe(last);
+  });
+
   it('when the ledger is reopened then jobs, statuses, attempts, errors and times are all kept', () => {
     const dir = freshDir();
     let t = 1_000;

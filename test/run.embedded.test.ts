@@ -2,7 +2,7 @@
 // and the outputs, a rerun computes nothing, Ctrl-C leaves a ledger a rerun continues from, progress on a pipe
 // is plain text, and a bad sweep is one line with nothing written.
 import { spawn } from 'node:child_process';
-import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
@@ -125,6 +125,34 @@ describe('loamwave run (embedded)', () => {
     expect(r.stdout).toBe(''); // quiet on stdout without --json
     expect(r.stderr).toMatch(/2\/2 done/);
     expect(r.stderr).not.toMatch(/\u001b|\r/);
+  });
+
+  it('when a finished sweep is run again then no output file is rewritten, and report rewrites only report.html', () => {
+    const sweep = join(scratch, 'inland-noop.yaml');
+    writeFileSync(sweep, sweepYaml('inland-noop', 8, [0.001, 0.01]));
+    const out = join(scratch, 'out-noop');
+    expect(cli(['run', sweep, '--out', out], scratch).code).toBe(0);
+    const stamp = () =>
+      Object.fromEntries(
+        ['runs.parquet', 'fields/part=0/data.parquet', 'convergence.parquet', 'report.html', '.loamwave-outputs.json'].map((f) => [
+          f,
+          statSync(join(out, f)).mtimeMs,
+        ]),
+      );
+    const first = stamp();
+    const again = cli(['run', sweep, '--out', out], scratch);
+    expect(again.code, again.stderr).toBe(0);
+    expect(stamp()).toEqual(first);
+    const report = cli(['report', out], scratch);
+    expect(report.code, report.stderr).toBe(0);
+    const after = stamp();
+    expect(after['report.html']).toBeGreaterThan(first['report.html']);
+    expect({ ...after, 'report.html': 0 }).toEqual({ ...first, 'report.html': 0 });
+    // A changed sweep file (one more conductivity) is new work: the tables are written again.
+    writeFileSync(sweep, sweepYaml('inland-noop', 8, [0.001, 0.01, 0.1]));
+    expect(cli(['run', sweep, '--out', out, '--no-report'], scratch).code).toBe(0);
+    expect(statSync(join(out, 'runs.parquet')).mtimeMs).toBeGreaterThan(first['runs.parquet']);
+    expect(existsSync(join(out, 'report.html'))).toBe(false); // it described the old tables
   });
 
   it('when run with --no-report then the tables are written and no report.html is', () => {

@@ -65,6 +65,19 @@ CREATE TABLE IF NOT EXISTS results (
   job_id TEXT PRIMARY KEY REFERENCES jobs (job_id),
   result_json TEXT NOT NULL
 );
+-- The ledger's revision: one more on every change of a job or a result, so the outputs can record which state
+-- they were written from and a rerun with nothing new can leave them alone.
+INSERT OR IGNORE INTO meta (key, value) VALUES ('revision', '0');
+CREATE TRIGGER IF NOT EXISTS revision_job_insert AFTER INSERT ON jobs
+  BEGIN UPDATE meta SET value = CAST(value AS INTEGER) + 1 WHERE key = 'revision'; END;
+CREATE TRIGGER IF NOT EXISTS revision_job_update AFTER UPDATE ON jobs
+  BEGIN UPDATE meta SET value = CAST(value AS INTEGER) + 1 WHERE key = 'revision'; END;
+CREATE TRIGGER IF NOT EXISTS revision_result_insert AFTER INSERT ON results
+  BEGIN UPDATE meta SET value = CAST(value AS INTEGER) + 1 WHERE key = 'revision'; END;
+CREATE TRIGGER IF NOT EXISTS revision_result_update AFTER UPDATE ON results
+  BEGIN UPDATE meta SET value = CAST(value AS INTEGER) + 1 WHERE key = 'revision'; END;
+CREATE TRIGGER IF NOT EXISTS revision_result_delete AFTER DELETE ON results
+  BEGIN UPDATE meta SET value = CAST(value AS INTEGER) + 1 WHERE key = 'revision'; END;
 `;
 
 export class Ledger {
@@ -126,6 +139,7 @@ export class Ledger {
          VALUES (?, ?, ?, ?, 'pending', ?, ?)`,
       ),
       get: db.prepare<[string], JobRow>(`SELECT * FROM jobs WHERE job_id = ?`),
+      revision: db.prepare<[], { value: string }>(`SELECT value FROM meta WHERE key = 'revision'`),
       listAll: db.prepare<[], JobRow>(`SELECT * FROM jobs ORDER BY idx, job_id`),
       listBy: db.prepare<[string], JobRow>(`SELECT * FROM jobs WHERE status = ? ORDER BY idx, job_id`),
       counts: db.prepare<[], { status: JobStatus; n: number }>(`SELECT status, COUNT(*) AS n FROM jobs GROUP BY status`),
@@ -252,6 +266,11 @@ export class Ledger {
       idx = last.idx;
       id = last.job_id;
     }
+  }
+
+  /** The ledger's revision: it changes whenever a job or a result does (triggers in SCHEMA_SQL). */
+  revision(): number {
+    return Number(this.stmt.revision.get()!.value);
   }
 
   /** Close the database; safe to call more than once. */

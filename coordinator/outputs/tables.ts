@@ -11,6 +11,8 @@ import type { JobResult } from '../../schemas/result.js';
 import { columnNameFor, FieldRowSchema, RunFactsSchema, RunKeySchema, type FieldRow, type LedgerJob, type RunFacts } from '../../schemas/table-rows.js';
 import type { Ledger } from '../ledger/ledger.js';
 import { columnsFromRowSchema } from './columns.js';
+import { sweepDigest, writeOutputState } from './state.js';
+import { SOLVER_VERSION } from '../../solver/version.js';
 import { ANALYSIS_FILES, writeAnalysisTables } from './analysis-tables.js';
 import { ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
 import { expandSweep, type ExpandedJob } from '../sweep/expand.js';
@@ -142,6 +144,10 @@ export async function writeOutputs(
   options: OutputOptions = {},
 ): Promise<OutputSummary> {
   const jobs = options.jobs ?? expandSweep(sweep, sweep.name);
+  // The revision these tables describe, read before the first row: a result committed meanwhile makes it stale.
+  // The old state file stays until the new one replaces it: it names an older revision, so until then the folder
+  // never passes for current, whatever this write leaves behind.
+  const revision = ledger.revision();
   const params = paramColumns(jobs, sweep);
   const rowGroupRows = options.rowGroupRows ?? 8192;
   mkdirSync(outDir, { recursive: true });
@@ -225,17 +231,21 @@ export async function writeOutputs(
       sensitivityRows: null,
       analysisSkipped: null,
     };
-    if (!(options.analysis ?? true)) return summary;
+    const recorded = (done: OutputSummary): OutputSummary => {
+      writeOutputState(outDir, { ledger_revision: revision, sweep_sha256: sweepDigest(sweepText), solver_version: SOLVER_VERSION, report_revision: null });
+      return done;
+    };
+    if (!(options.analysis ?? true)) return recorded(summary);
     const maxRows = options.analysisMaxFieldRows ?? ANALYSIS_MAX_FIELD_ROWS;
     if (fieldRows > maxRows) {
       summary.analysisSkipped = `${fieldRows} field rows, more than the ${maxRows} the analysis holds in memory`;
-      return summary;
+      return recorded(summary);
     }
     // Second stage, from the tables just published: a failure here leaves runs.parquet and fields/ in place.
     const analysis = await writeAnalysisTables(outDir, staging, { sensitivity: options.sensitivityTable ?? true });
     summary.convergenceRows = analysis.convergence;
     summary.sensitivityRows = analysis.sensitivity;
-    return summary;
+    return recorded(summary);
   } finally {
     rmSync(staging, { recursive: true, force: true });
   }
