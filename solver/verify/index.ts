@@ -4,10 +4,12 @@
 import { dispersionFamily } from './dispersion.js';
 import { groundWaveFamily } from './ground-wave.js';
 import { mixedPathFamily } from './mixed-path.js';
+import { mixedPathSphereFamily } from './mixed-path-sphere.js';
 import type { CheckFamily, ReferenceCheck } from './outcome.js';
 import { perfectGroundFamily } from './perfect-ground.js';
 import { planarGuideFamily } from './planar-guide.js';
 import { reflectionFamily } from './reflection.js';
+import { sphericalFamily } from './spherical.js';
 
 export type { Bound, CheckFamily, CheckOutcome, ReferenceCheck, Tolerance } from './outcome.js';
 export { pecDipoleFieldVPerM } from './perfect-ground.js';
@@ -20,6 +22,8 @@ export const FAMILIES: readonly CheckFamily[] = [
   groundWaveFamily,
   planarGuideFamily,
   mixedPathFamily,
+  mixedPathSphereFamily,
+  sphericalFamily,
 ];
 
 /** Every check `loamwave verify` runs, in order. */
