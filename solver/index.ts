@@ -31,7 +31,10 @@ export interface SolveOptions {
   shouldStop?: () => boolean;
   /** Run exactly this many steps, ignoring the settling test (stability studies, benchmarks). */
   fixedSteps?: number;
-  /** Called every `energyEverySteps` steps with Σ(Ex² + Ez² + (η0·Hy)²) over the grid, V²/m² (stability studies). */
+  /**
+   * Called every `energyEverySteps` steps with Σ(Ex² + Ez² + (η0·Hy)²) over the grid, V²/m² (stability studies;
+   * on the sphere of the stored fields, whose Eθ and Hφ carry the factor ρ/a: a weighted energy, as good a norm).
+   */
   onEnergy?: (step: number, energy: number) => void;
   energyEverySteps?: number;
 }

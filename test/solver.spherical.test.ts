@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { MEAN_EARTH_RADIUS_M, parseCase, type CaseInput } from '../schemas/case.js';
 import { C0 } from '../solver/constants.js';
 import { planGrid } from '../solver/grid.js';
-import { solve } from '../solver/index.js';
+import { estimateCost, solve } from '../solver/index.js';
 import * as Cx from '../solver/references/complex.js';
 import { nortonFieldRatio } from '../solver/references/norton.js';
 import { sphericalEarthFieldRatio, sphericalEarthParameters } from '../solver/references/spherical-earth.js';
@@ -34,6 +34,17 @@ describe('spherical geometry: the flat limit', () => {
     ['impedance ground, half-cell sampling, receivers 500 m up', { ...short, ground: { ...short.ground, impedance_sampling: 'half_cell' }, receivers: { ...short.receivers, height_m: 500 } }],
     ['perfect ground, receivers 500 m up', { ...short, ground: { model: 'pec' }, receivers: { ...short.receivers, height_m: 500 } }],
     ['resolved ground', { ...short, ground: { ...short.ground, model: 'resolved' } }],
+    [
+      'mixed path (sea from 25 km, placed by distance along the surface), dispersion correction, receivers 300 m up',
+      {
+        ...short,
+        ground: { model: 'impedance', segments: [short.ground.segments![0], { start_m: 25000, conductivity_s_per_m: 5, relative_permittivity: 70 }] },
+        grid: { cells_per_wavelength: 10, dispersion_correction: 'along_ground' },
+        receivers: { ...short.receivers, height_m: 300 },
+      },
+    ],
+    ['a perfect ceiling at 20 km', { ...short, upper_boundary: { kind: 'pec', height_m: 20000 } }],
+    ['an exponential ionosphere (h′ 60 km, β 0.5/km)', { ...short, upper_boundary: { kind: 'exponential', h_prime_km: 60, beta_per_km: 0.5 }, domain: { range_m: 60000, height_m: 80000 } }],
   ] as Array<[string, CaseInput]>)(
     'when the sphere is 1e9 m in radius then every field agrees with the flat axisymmetric grid within 0.005 dB and 0.05° (%s), and the rest is the 1/a curvature term',
     (_what, input) => {
@@ -88,6 +99,21 @@ const mixedUnderIonosphere: CaseInput = {
   grid: { cells_per_wavelength: 10, courant: 0.94 },
   receivers: { ranges_m: [50000, 100000] },
 };
+
+describe('spherical geometry: cost', () => {
+  it('when a sphere case is solved then estimateCost predicts its cells and memory, and the grid matches the flat one of the same case', () => {
+    const c = parseCase({ ...short, geometry: 'spherical' });
+    const r = solve(c);
+    const est = estimateCost(c);
+    const flat = estimateCost(parseCase(short));
+    expect(r.grid.cells_total).toBe(est.cells_total);
+    expect(r.grid.memory_bytes).toBe(est.memory_bytes);
+    // the sphere adds no arrays: its metric factors live in the per-row coefficient profiles and per-column weights
+    expect(est).toEqual(flat);
+    expect(r.grid.steps).toBeGreaterThanOrEqual(est.steps * 0.5);
+    expect(r.geometry).toBe('spherical');
+  });
+});
 
 describe('spherical geometry: stability', () => {
   it.each([
