@@ -153,7 +153,95 @@ export type Sweep = z.output<typeof SweepSchema>;
 
 /** JSON Schema of the sweep file (as written by users: defaults optional). */
 export function sweepJsonSchema(): unknown {
-  return z.toJSONSchema(SweepSchema, { io: 'input', unrepresentable: 'any' });
+  const json = z.toJSONSchema(SweepSchema, { io: 'input', unrepresentable: 'any' }) as {
+    properties: Record<string, JsonSchemaNode & Record<string, unknown>>;
+  };
+  // `base` is a case with anything left out (defaults fill it in, and a varied value may be missing from it): the
+  // case schema with nothing required but the kind that tells the branches of a union apart.
+  const { $schema: _drop, ...caseJson } = caseJsonSchema() as Record<string, unknown>;
+  json.properties.base = { ...partialCase(caseJson as JsonSchemaNode), description: 'The case every job starts from (loamwave schema case); what is left out takes its defaults.' };
+  // `vary`: one property pattern per scalar of the case, whose generator's values are held to that scalar's limits.
+  const generic = json.properties.vary.additionalProperties as JsonSchemaNode;
+  const patternProperties: Record<string, unknown> = {};
+  for (const [path, leaves] of caseLeafNodes()) {
+    const leaf = leaves.length === 1 ? leaves[0] : { anyOf: leaves };
+    const pattern = '^' + path.replace(/[.*+?^${}()|[\]\\]/g, '\\$&').replace(/\\\[0\\\]/g, '\\[\\d+\\]') + '$';
+    patternProperties[pattern] = generatorFor(generic, leaf);
+  }
+  json.properties.vary = { ...json.properties.vary, patternProperties, additionalProperties: false };
+  return json;
+}
+
+/** A JSON Schema node without `default` and `description` (a generator's values are not the case's defaults). */
+function bare(node: JsonSchemaNode): JsonSchemaNode {
+  const { default: _d, description: _s, ...rest } = node as JsonSchemaNode & { default?: unknown; description?: unknown };
+  return rest;
+}
+
+/** The case schema with `required` dropped everywhere except the `kind` of a union branch. */
+function partialCase(node: JsonSchemaNode): JsonSchemaNode {
+  const out: Record<string, unknown> = { ...node };
+  const required = (node as { required?: string[] }).required;
+  if (required) {
+    const kept = required.filter((k) => k === 'kind');
+    if (kept.length > 0) out.required = kept;
+    else delete out.required;
+  }
+  if (node.properties) out.properties = Object.fromEntries(Object.entries(node.properties).map(([k, v]) => [k, partialCase(v)]));
+  if (node.items) out.items = partialCase(node.items);
+  if (node.oneOf) out.oneOf = node.oneOf.map(partialCase);
+  if (node.anyOf) out.anyOf = node.anyOf.map(partialCase);
+  return out as JsonSchemaNode;
+}
+
+/** The generator schema with every value it gives held to `leaf`; only `values` for a leaf that is not a number. */
+function generatorFor(generic: JsonSchemaNode, leaf: JsonSchemaNode): JsonSchemaNode {
+  const g = JSON.parse(JSON.stringify(generic)) as JsonSchemaNode & { properties: Record<string, JsonSchemaNode & { properties?: Record<string, JsonSchemaNode> }> };
+  const numeric = JSON.stringify(leaf).includes('"number"') || JSON.stringify(leaf).includes('"integer"');
+  const values = g.properties.values as JsonSchemaNode & { items?: JsonSchemaNode };
+  values.items = leaf;
+  for (const kind of ['linear', 'log', 'uniform', 'log_uniform'] as const) {
+    if (!numeric) {
+      delete g.properties[kind];
+      continue;
+    }
+    // Geometric spacing needs positive ends, whatever the scalar allows.
+    const end = kind.startsWith('log') ? { allOf: [leaf, { exclusiveMinimum: 0 }] } : leaf;
+    const props = g.properties[kind].properties!;
+    props.from = end as JsonSchemaNode;
+    props.to = end as JsonSchemaNode;
+  }
+  return g;
+}
+
+let leafNodesCache: Map<string, JsonSchemaNode[]> | undefined;
+
+/** Every scalar of the case schema by vary path (indices written `[0]`), with its schema in each branch it is in. */
+function caseLeafNodes(): Map<string, JsonSchemaNode[]> {
+  if (leafNodesCache) return leafNodesCache;
+  const out = new Map<string, JsonSchemaNode[]>();
+  const walk = (node: JsonSchemaNode, prefix: string): void => {
+    const branches = node.oneOf ?? node.anyOf;
+    if (branches) {
+      for (const b of branches) walk(b, prefix);
+      return;
+    }
+    if (node.properties) {
+      for (const [k, child] of Object.entries(node.properties)) walk(child, prefix === '' ? k : `${prefix}.${k}`);
+      return;
+    }
+    if (node.items) {
+      walk(node.items, `${prefix}[0]`);
+      return;
+    }
+    const list = out.get(prefix) ?? [];
+    const leaf = bare(node);
+    if (!list.some((l) => JSON.stringify(l) === JSON.stringify(leaf))) list.push(leaf);
+    out.set(prefix, list);
+  };
+  walk(caseJsonSchema() as JsonSchemaNode, '');
+  leafNodesCache = out;
+  return out;
 }
 
 /** The default resolution axis: the only varied `grid.*` path, if there is exactly one. */
