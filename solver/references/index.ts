@@ -47,3 +47,14 @@ export {
   sphericalEarthFieldRatio,
   sphericalEarthParameters,
 } from './spherical-earth.js';
+export {
+  type HomogeneousCurve,
+  type HomogeneousFieldCurve,
+  type MillingtonField,
+  type PathSection,
+  millington,
+  millingtonField,
+  millingtonForward,
+  millingtonReverse,
+  pathToRange,
+} from './millington.js';

@@ -2,6 +2,7 @@
 import { parseCase, type CaseInput } from '../../schemas/case.js';
 import { solve } from '../index.js';
 import * as Cx from '../references/complex.js';
+import { millington, pathToRange } from '../references/millington.js';
 import { nortonFieldRatio } from '../references/norton.js';
 import { db, outcome, type CheckFamily, type ReferenceCheck, type Tolerance } from './outcome.js';
 
@@ -16,7 +17,8 @@ export const MIXED_PATH_TOLERANCE_DB: Tolerance = {
  * Land–sea path (100 kHz; 30 km of 5e-4 S/m εr 10, then sea water 4 S/m εr 80): the field ratio to a perfect
  * ground against Millington's method, the mean of the forward and reverse constructions from homogeneous-path
  * curves (Millington, Proc. IEE Part III 96, 1949: the averaging is published; the formula here is from memory),
- * built from the same Sommerfeld–Norton curves. It reproduces the recovery of the field over the sea.
+ * built from the same Sommerfeld–Norton curves (references/millington.ts). It reproduces the recovery of the field
+ * over the sea.
  */
 export const mixedPathCheck: ReferenceCheck = {
   id: 'mixed-path',
@@ -42,20 +44,21 @@ export const mixedPathCheck: ReferenceCheck = {
     const over = solve(parseCase(base));
     const pec = solve(parseCase({ ...base, ground: { model: 'pec' } }));
     const curve = (g: [number, number], d: number) => db(Cx.abs(nortonFieldRatio(f, g[0], g[1], d, { deltaForm: 'surface-impedance' })));
-    return ranges.map((d, i) => {
-      const d2 = d - d1;
-      const forward = curve(land, d1) - curve(sea, d1) + curve(sea, d);
-      const reverse = curve(sea, d2) - curve(land, d2) + curve(land, d);
-      return outcome(
+    const segments = [
+      { startM: 0, ground: land },
+      { startM: d1, ground: sea },
+    ];
+    return ranges.map((d, i) =>
+      outcome(
         `land–sea path, |E/E_pec| at ${d / 1e3} km (sea from 30 km), 100 kHz (dB)`,
         "Millington's mixed-path method (Proc. IEE Part III 96, 1949) on Sommerfeld–Norton curves",
-        (forward + reverse) / 2,
+        millington(pathToRange(segments, d), curve),
         db(Cx.abs(Cx.div(over.receivers[i].ez, pec.receivers[i].ez))),
         MIXED_PATH_TOLERANCE_DB,
         ' dB',
         3,
-      );
-    });
+      ),
+    );
   },
 };
 
