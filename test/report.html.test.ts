@@ -6,12 +6,17 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { convergenceTable, type ConvergenceRun } from '../coordinator/analysis/grid-convergence.js';
 import { saltelliIndices, saltelliRows } from '../coordinator/analysis/saltelli.js';
 import { saltelliDesign } from '../coordinator/sampling/saltelli-layout.js';
-import { ReportDataSchema, type FieldSeries, type ReportData } from '../coordinator/report/data.js';
+import { ReportDataSchema, type ReportData } from '../coordinator/report/data.js';
 import { buildReportHtml, escapeHtml } from '../coordinator/report/html.js';
-import { fieldPlots, MAX_FIELD_LINES, renderSvg } from '../coordinator/report/plots.js';
+import { fieldPlots, renderSvg } from '../coordinator/report/plots.js';
 import { residualPhaseDeg } from '../coordinator/analysis/residual-phase.js';
+import { fieldSpread, MAX_DRAWN_RUNS, SPREAD_BINS, type SpreadRun } from '../coordinator/analysis/field-spread.js';
 import { C0 } from '../solver/constants.js';
 import { checkReportPage, launchChromium, WINDOW_WIDTH_PX, type Browser } from './report.page-check.js';
+import { assembleReportData } from '../coordinator/report/assembly.js';
+import { MAX_TABLE_ROWS } from '../coordinator/report/data.js';
+import { MAX_RANGES_PER_LINE, MAX_SPREAD_GROUPS } from '../coordinator/analysis/field-spread.js';
+import { largeSweepTables } from '../bench/large-sweep-tables.js';
 
 const OUT = resolve('test-output');
 
@@ -20,7 +25,7 @@ const OUT = resolve('test-output');
  * ITU-R P.368 ground-wave curves; docs/references.md, derived), here scaled by an invented loss factor per conductivity
  * for the demo, with the free-space phase −360°·f·r/c plus a small invented lag.
  */
-function demoSeries(jobId: string, frequencyHz: number, conductivity: number): FieldSeries {
+function demoSeries(jobId: string, frequencyHz: number, conductivity: number): SpreadRun & { points: SpreadRun['points'][number][] } {
   const ranges = [25e3, 50e3, 100e3, 200e3, 400e3];
   return {
     job_id: jobId,
@@ -59,6 +64,10 @@ function buildData(): ReportData {
     })),
   }));
   const convergence = convergenceTable(runs, { axis: 'cells_per_wavelength', toleranceDb: 0.1, tolerancePhaseDeg: 0.5 });
+  const varied = [
+    { path: 'frequency_hz', column: 'frequency_hz', min: 20e3, max: 40e3, distinct: 2 },
+    { path: 'ground.segments[0].conductivity_s_per_m', column: 'ground_segments_0_conductivity_s_per_m', min: 1e-3, max: 4, distinct: 3 },
+  ];
   const field_series = [20e3, 40e3].flatMap((f, i) =>
     [1e-3, 1e-2, 4].map((s, j) => demoSeries(`job${i}${j}abcdef0123456789`, f, s)),
   );
@@ -71,14 +80,11 @@ function buildData(): ReportData {
       file_name: 'ilvandreque.yaml',
       design: 'full_factorial',
       resolution_axis: 'grid.cells_per_wavelength',
-      varied: [
-        { path: 'frequency_hz', column: 'frequency_hz', min: 20e3, max: 40e3, distinct: 2 },
-        { path: 'ground.segments[0].conductivity_s_per_m', column: 'ground_segments_0_conductivity_s_per_m', min: 1e-3, max: 4, distinct: 3 },
-      ],
+      varied,
       jobs: { total: 7, done: 6, failed: 1, pending: 0 },
       wall_time_s_total: 5400,
     },
-    field_series,
+    fields: fieldSpread(field_series, varied),
     convergence,
     sensitivity,
     runs: {
@@ -110,18 +116,23 @@ describe('report page', () => {
     for (const p of residualPhaseDeg(s)) expect(Math.abs(p.value)).toBeLessThan(1e-9);
   });
 
-  it('when a sampled sweep has more runs than a plot draws then an evenly spaced subset is drawn on a log colour ramp', async () => {
-    // 300 runs with conductivities spread over four decades (as a log_uniform input gives).
+  it('when a sampled sweep has many runs then each plot draws one band per bin and at most MAX_DRAWN_RUNS runs', async () => {
+    // 300 runs with conductivities spread over four decades (as a log_uniform input gives): more values than get a
+    // group each, so SPREAD_BINS bins of 60 runs.
     const many = Array.from({ length: 300 }, (_, k) => demoSeries(`j${k}`, 20e3, 10 ** (-4 + (4 * k) / 299)));
-    const input = { path: 'ground.segments[0].conductivity_s_per_m', column: 'ground_segments_0_conductivity_s_per_m', min: 1e-4, max: 1, distinct: 300 };
-    const [db] = fieldPlots(many, [input]);
-    expect(db.caption).toContain(`${MAX_FIELD_LINES} of 300 runs drawn`);
-    const colour = (db.spec as { encoding: { color: { type: string; scale: { type?: string } } } }).encoding.color;
-    expect(colour.type).toBe('quantitative');
-    expect(colour.scale.type).toBe('log');
+    const input = { path: 'ground.segments[0].conductivity_s_per_m', column: 'ground_segments_0_conductivity_s_per_m' };
+    const summary = fieldSpread(many, [input]);
+    expect(summary.spreads[0].grouping).toBe('bins');
+    expect(summary.spreads[0].groups.map((g) => g.runs)).toEqual(Array(SPREAD_BINS).fill(300 / SPREAD_BINS));
+    expect(summary.drawn).toHaveLength(MAX_DRAWN_RUNS);
+    const [db] = fieldPlots(summary);
+    expect(db.caption).toContain(`${MAX_DRAWN_RUNS} of the 300 runs, evenly chosen`);
+    expect(db.caption).toContain('Hyndman & Fan 1996, type 7');
     const svg = await renderSvg(db.spec);
-    // Vega draws one line-mark group per run (the detail channel): exactly the runs drawn.
-    expect((svg.match(/<g class="mark-line role-mark[^"]*"/g) ?? []).length).toBe(MAX_FIELD_LINES);
+    // Vega draws one line-mark group per line (the detail and colour channels): the drawn runs and one median per
+    // bin; and one area per bin.
+    expect((svg.match(/<g class="mark-line role-mark[^"]*"/g) ?? []).length).toBe(MAX_DRAWN_RUNS + SPREAD_BINS);
+    expect((svg.match(/<g class="mark-area role-mark[^"]*"/g) ?? []).length).toBe(SPREAD_BINS);
   });
 
   it('when built then it is one self-contained page: no scripts, links, external URLs or web fonts', () => {
@@ -184,4 +195,71 @@ describe('report page', () => {
       expect(page.convergenceScrolls).toBe(false);
     });
   });
+});
+
+describe('report page of a large sweep', () => {
+  // 2,000 runs × 500 receivers of made-up numbers (bench/large-sweep-tables.ts, deterministic through the project's
+  // PRNG): a test of the page's size and that it renders, not of the physics. How fast it opens is measured by
+  // `npm run bench:report` (bench/report-size.ts), not here: a timed test would flake on a shared machine.
+  const MAX_PAGE_BYTES = 5 * 1024 * 1024; // the target: a page a browser opens without trouble
+  let data: ReportData;
+  let html = '';
+  let browser: Browser;
+
+  beforeAll(async () => {
+    const tables = largeSweepTables();
+    expect(tables.runs).toHaveLength(2000);
+    expect(tables.fields).toHaveLength(2000 * 500);
+    data = assembleReportData(tables, { generatedBy: 'loamwave test' });
+    html = await buildReportHtml(data);
+    mkdirSync(OUT, { recursive: true });
+    writeFileSync(resolve(OUT, 'report-large.html'), html);
+    browser = await launchChromium();
+  }, 180_000);
+  afterAll(async () => {
+    await browser?.close();
+  });
+
+  it('when assembled then the report data holds quantiles and a few runs, not every field row', () => {
+    const f = data.fields;
+    expect(f.runs).toBe(2000);
+    expect(f.ranges).toBe(500);
+    expect(f.ranges_plotted).toBe(MAX_RANGES_PER_LINE);
+    expect(f.drawn).toHaveLength(MAX_DRAWN_RUNS);
+    for (const run of f.drawn) expect(run.points.length).toBeLessThanOrEqual(MAX_RANGES_PER_LINE);
+    // One spread per varied input (3); groups: 5 frequencies by value, the two 20-valued inputs in bins.
+    expect(f.spreads.map((s) => [s.grouping, s.groups.length])).toEqual([['values', 5], ['bins', SPREAD_BINS], ['bins', SPREAD_BINS]]);
+    for (const s of f.spreads) {
+      expect(s.groups.length).toBeLessThanOrEqual(MAX_SPREAD_GROUPS + 1);
+      expect(s.points.length).toBeLessThanOrEqual(s.groups.length * MAX_RANGES_PER_LINE);
+      expect(s.groups.reduce((n, g) => n + g.runs, 0)).toBe(2000);
+    }
+    expect(data.runs.rows).toHaveLength(MAX_TABLE_ROWS);
+    expect(data.runs.total).toBe(2000);
+  });
+
+  it('when built then the page is at most 5 MB and the capped tables point to their Parquet files', () => {
+    expect(Buffer.byteLength(html)).toBeLessThanOrEqual(MAX_PAGE_BYTES);
+    expect(html).toContain(`Showing ${MAX_TABLE_ROWS} of 2000 rows; every row is in runs.parquet`);
+    expect(html).toContain(`Showing ${MAX_TABLE_ROWS} of ${data.sensitivity.length} rows; every row is in sensitivity.parquet`);
+    expect(html).toContain(`${MAX_DRAWN_RUNS} of the 2000 runs, evenly chosen`);
+    expect(html).toContain(`${MAX_RANGES_PER_LINE} of the 500 receiver ranges shown`);
+  });
+
+  it('when opened in Chromium then every plot renders marks, nothing errs and nothing is fetched', async () => {
+    const page = await checkReportPage(browser, resolve(OUT, 'report-large.html'));
+    const fieldIds = ['frequency_hz', 'ground_segments_0_conductivity_s_per_m', 'ground_segments_0_relative_permittivity'].flatMap((c) => [
+      `field-db-${c}`,
+      `field-phase-${c}`,
+    ]);
+    expect(page.plots.filter((p) => p.startsWith('field-'))).toEqual(fieldIds);
+    expect(page.plots.filter((p) => p.startsWith('sensitivity-'))).toHaveLength(12);
+    for (const id of page.plots) {
+      expect(page.marks[id].paths, id).toBeGreaterThan(0);
+      expect(page.marks[id].widthPx, id).toBeGreaterThan(200);
+    }
+    expect(page.errors).toEqual([]);
+    expect(page.requests).toEqual([]);
+    expect(page.runRows).toBe(MAX_TABLE_ROWS);
+  }, 60_000);
 });

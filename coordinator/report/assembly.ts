@@ -16,10 +16,17 @@ import {
 } from '../analysis/compute-tables.js';
 import type { FolderTables } from '../analysis/read-tables.js';
 import type { Sweep } from '../../schemas/sweep.js';
-import type { CurvatureRow, FieldSeries, ReportData, ReportWarning, VariedInput } from './data.js';
+import { MAX_TABLE_ROWS, type CurvatureRow, type ReportData, type ReportWarning, type VariedInput } from './data.js';
 import type { Cell } from '../analysis/read-tables.js';
+import { evenIndices, fieldSpread, MAX_DRAWN_RUNS, MAX_RANGES_PER_LINE, type SpreadRun } from '../analysis/field-spread.js';
 import { columnNameFor } from '../../schemas/table-rows.js';
 import { unwrapNearDeg } from '../../solver/phase.js';
+
+/** Inputs given range plots of their own (two each: field strength and residual phase); the rest are in the tables. */
+export const MAX_PLOTTED_INPUTS = 6;
+
+/** Most flat-against-sphere pairs (radius and group) whose rows the report holds and draws, chosen evenly. */
+export const MAX_CURVATURE_LINES = MAX_DRAWN_RUNS;
 
 const RUN_TABLE_COLUMNS = ['job_id', 'status', 'cell_size_m', 'steps', 'cells_total', 'wall_time_s', 'warnings', 'error'];
 
@@ -52,8 +59,9 @@ function variedOf(tables: FolderTables): VariedInput[] {
     return {
       path,
       column,
-      min: numeric ? Math.min(...numbers) : null,
-      max: numeric ? Math.max(...numbers) : null,
+      // A loop, not Math.min(...numbers): spreading a very large sweep's values would overflow the call stack.
+      min: numeric ? numbers.reduce((a, b) => Math.min(a, b)) : null,
+      max: numeric ? numbers.reduce((a, b) => Math.max(a, b)) : null,
       distinct: new Set(values.map((v) => String(v))).size,
     };
   });
@@ -65,18 +73,21 @@ const DEFAULT_EARTH_RADIUS_M = 6_371_000;
 /**
  * Pairs of otherwise-equal runs, one over a flat geometry and one over the sphere, and the sphere's field minus the
  * flat one at each receiver both have. Needs `geometry` among the varied inputs; the radius of a spherical run is its
- * varied `earth.radius_m`, else the base case's, else the mean radius.
+ * varied `earth.radius_m`, else the base case's, else the mean radius. Returns every row, sorted by group, radius and
+ * range.
  */
-function curvatureOf(tables: FolderTables, series: readonly FieldSeries[]): CurvatureRow[] {
+function curvatureOf(tables: FolderTables, series: readonly SpreadRun[]): CurvatureRow[] {
   const sweep = tables.sweep;
   if (!('geometry' in sweep.vary)) return [];
   const geometryColumn = columnNameFor('geometry');
   const radiusColumn = columnNameFor('earth.radius_m');
   const baseRadius = num((sweep.base as { earth?: { radius_m?: Cell } }).earth?.radius_m as Cell) ?? DEFAULT_EARTH_RADIUS_M;
   const others = paramColumnsOf(sweep).filter((p) => p.column !== geometryColumn && p.column !== radiusColumn);
-  const groupOf = (s: FieldSeries) => others.map((p) => `${p.path}=${String(s.params[p.column] ?? '')}`).join(', ');
-  const flat = new Map<string, FieldSeries>();
-  for (const s of series) if (s.params[geometryColumn] !== 'spherical' && !flat.has(groupOf(s))) flat.set(groupOf(s), s);
+  const groupOf = (s: SpreadRun) => others.map((p) => `${p.path}=${String(s.params[p.column] ?? '')}`).join(', ');
+  const flat = new Map<string, Map<number, SpreadRun['points'][number]>>();
+  for (const s of series) {
+    if (s.params[geometryColumn] !== 'spherical' && !flat.has(groupOf(s))) flat.set(groupOf(s), new Map(s.points.map((p) => [p.range_m, p])));
+  }
   const rows: CurvatureRow[] = [];
   for (const s of series) {
     if (s.params[geometryColumn] !== 'spherical') continue;
@@ -84,7 +95,7 @@ function curvatureOf(tables: FolderTables, series: readonly FieldSeries[]): Curv
     if (!f) continue;
     const radius = num(s.params[radiusColumn]) ?? baseRadius;
     for (const p of s.points) {
-      const q = f.points.find((x) => x.range_m === p.range_m);
+      const q = f.get(p.range_m);
       if (!q) continue;
       rows.push({
         group: groupOf(s),
@@ -98,6 +109,23 @@ function curvatureOf(tables: FolderTables, series: readonly FieldSeries[]): Curv
     }
   }
   return rows.sort((a, b) => (a.group < b.group ? -1 : a.group > b.group ? 1 : a.earth_radius_m - b.earth_radius_m || a.range_m - b.range_m));
+}
+
+/**
+ * The curvature rows the report holds: at most MAX_CURVATURE_LINES pairs (radius and group, chosen evenly in sorted
+ * order) of at most MAX_RANGES_PER_LINE ranges each (thinned evenly); with the totals when some were left out.
+ */
+function boundedCurvature(rows: readonly CurvatureRow[]): { rows: CurvatureRow[]; total: { rows: number; lines: number } | null } {
+  const lines: CurvatureRow[][] = [];
+  for (const r of rows) {
+    const last = lines[lines.length - 1];
+    if (last && last[0].group === r.group && last[0].earth_radius_m === r.earth_radius_m) last.push(r);
+    else lines.push([r]);
+  }
+  const kept = evenIndices(lines.length, MAX_CURVATURE_LINES).flatMap((i) =>
+    evenIndices(lines[i].length, MAX_RANGES_PER_LINE).map((k) => lines[i][k]),
+  );
+  return { rows: kept, total: kept.length < rows.length ? { rows: rows.length, lines: lines.length } : null };
 }
 
 function designText(sweep: Sweep): string {
@@ -117,18 +145,14 @@ export function assembleReportData(tables: FolderTables, options: AnalysisOption
   if (tables.sensitivity !== null) notes.sensitivityNote = finestLevelRuns(tables, tables.runs.filter((r) => r.status === 'done')).note;
   const params = paramColumnsOf(sweep);
   const byJob = fieldsByJob(tables.fields);
-  const field_series: FieldSeries[] = tables.runs.flatMap((run) => {
+  // Every done run's fields, for the spread and the curvature pairs; the report keeps only their bounded summaries.
+  const series: SpreadRun[] = tables.runs.flatMap((run) => {
     const pts = byJob.get(String(run.job_id));
     if (run.status !== 'done' || !pts) return [];
-    return [
-      {
-        job_id: String(run.job_id),
-        params: Object.fromEntries(params.map((p) => [p.column, run[p.column] ?? null])),
-        frequency_hz: frequencyOf(run, sweep),
-        points: pts.map((p) => ({ range_m: p.range_m, ez_db_uv_per_m: p.ez_db_uv_per_m, ez_phase_deg: p.ez_phase_deg })),
-      },
-    ];
+    return [{ job_id: String(run.job_id), params: Object.fromEntries(params.map((p) => [p.column, run[p.column] ?? null])), frequency_hz: frequencyOf(run, sweep), points: pts }];
   });
+  const varied = variedOf(tables);
+  const curvature = boundedCurvature(curvatureOf(tables, series));
   const count = (status: string) => tables.runs.filter((r) => r.status === status).length;
   const columns = [
     ...RUN_TABLE_COLUMNS.slice(0, 2),
@@ -144,7 +168,7 @@ export function assembleReportData(tables: FolderTables, options: AnalysisOption
       file_name: tables.sweepFileName,
       design: designText(sweep),
       resolution_axis: sweep.resolution_axis ?? null,
-      varied: variedOf(tables),
+      varied,
       jobs: {
         total: tables.runs.length,
         done: count('done'),
@@ -153,14 +177,15 @@ export function assembleReportData(tables: FolderTables, options: AnalysisOption
       },
       wall_time_s_total: tables.runs.reduce((s, r) => s + (num(r.wall_time_s) ?? 0), 0),
     },
-    field_series,
+    fields: fieldSpread(series, varied.slice(0, MAX_PLOTTED_INPUTS)),
     convergence,
     sensitivity,
     sensitivity_note: notes.sensitivityNote ?? null,
-    curvature: curvatureOf(tables, field_series),
+    curvature: curvature.rows,
+    curvature_total: curvature.total,
     runs: {
       columns,
-      rows: tables.runs.map((r) => columns.map((c) => (c === 'job_id' ? String(r[c]).slice(0, 12) : (r[c] ?? null)))),
+      rows: tables.runs.slice(0, MAX_TABLE_ROWS).map((r) => columns.map((c) => (c === 'job_id' ? String(r[c]).slice(0, 12) : (r[c] ?? null)))),
       total: tables.runs.length,
     },
     warnings: [...warningsOf(tables, convergence), ...notes.warnings],

@@ -6,6 +6,14 @@ import { SensitivityRowSchema } from '../../schemas/analysis-rows.js';
 
 export { CellSchema, type Cell } from '../analysis/read-tables.js';
 import { CellSchema } from '../analysis/read-tables.js';
+import { FieldSummarySchema } from '../analysis/field-spread.js';
+export { FieldSummarySchema, type FieldSummary, type FieldSpread, type DrawnRun } from '../analysis/field-spread.js';
+
+/**
+ * Most rows the report's data holds for a table (runs, curvature) and the page shows of any table or warning list;
+ * every row is in the Parquet files the page points to. Bounds the page whatever the sweep's size.
+ */
+export const MAX_TABLE_ROWS = 200;
 
 export const VariedInputSchema = z.strictObject({
   /** Sweep path, e.g. `ground.segments[0].conductivity_s_per_m`. */
@@ -19,22 +27,6 @@ export const VariedInputSchema = z.strictObject({
   distinct: z.number().int().min(0),
 });
 export type VariedInput = z.infer<typeof VariedInputSchema>;
-
-export const FieldSeriesSchema = z.strictObject({
-  job_id: z.string(),
-  /** Values of the varied inputs of this run, keyed by column. */
-  params: z.record(z.string(), CellSchema),
-  /** Frequency of the run, Hz: the phase plot removes the free-space delay 360°·f·r/c. */
-  frequency_hz: z.number().positive(),
-  points: z.array(
-    z.strictObject({
-      range_m: z.number(),
-      ez_db_uv_per_m: z.number(),
-      ez_phase_deg: z.number(),
-    }),
-  ),
-});
-export type FieldSeries = z.infer<typeof FieldSeriesSchema>;
 
 export const WarningKindSchema = z.enum([
   /** The surface-impedance model is near or past its validity limit for a run. */
@@ -96,16 +88,23 @@ export const ReportDataSchema = z.strictObject({
     }),
     wall_time_s_total: z.number().min(0),
   }),
-  field_series: z.array(FieldSeriesSchema),
+  /** Field strength and residual phase against range: per-group quantiles and a few runs (bounded in size). */
+  fields: FieldSummarySchema,
   convergence: z.array(ConvergenceRowSchema),
   sensitivity: z.array(SensitivityRowSchema),
   /** How the sensitivity rows were obtained, when the reader needs to know (e.g. which grid level they use). */
   sensitivity_note: z.string().nullable().default(null),
-  /** Flat against sphere, when the sweep varies `geometry` over both (empty otherwise). */
+  /**
+   * Flat against sphere, when the sweep varies `geometry` over both (empty otherwise): the rows of at most
+   * MAX_CURVATURE_LINES pairs, at most MAX_RANGES_PER_LINE ranges each (all of them in a small sweep).
+   */
   curvature: z.array(CurvatureRowSchema).default([]),
+  /** How many curvature rows and pairs (radius and group) there are in all; null when `curvature` holds them all. */
+  curvature_total: z.strictObject({ rows: z.number().int().min(0), lines: z.number().int().min(0) }).nullable().default(null),
   runs: z.strictObject({
     columns: z.array(z.string()),
-    rows: z.array(z.array(CellSchema)),
+    /** The first MAX_TABLE_ROWS rows of runs.parquet at most. */
+    rows: z.array(z.array(CellSchema)).max(MAX_TABLE_ROWS),
     /** Rows in runs.parquet (the table may show fewer). */
     total: z.number().int().min(0),
   }),

@@ -3,11 +3,11 @@
 import { describeGroup } from '../analysis/grid-convergence.js';
 import { type ConvergenceRow } from '../../schemas/analysis-rows.js';
 import { type SensitivityRow } from '../../schemas/analysis-rows.js';
-import { ReportDataSchema, type Cell, type CurvatureRow, type ReportData, type ReportDataInput, type ReportWarning } from './data.js';
+import { MAX_TABLE_ROWS, ReportDataSchema, type Cell, type CurvatureRow, type ReportData, type ReportDataInput, type ReportWarning } from './data.js';
 import { convergencePlots, curvaturePlots, fieldPlots, renderSvg, sensitivityPlots, type Plot } from './plots.js';
 
-/** Most rows shown in the runs, convergence and sensitivity tables and in the warnings list. */
-export const MAX_TABLE_ROWS = 200;
+/** Most rows shown in the runs, convergence, sensitivity and curvature tables and in each list of warnings. */
+export { MAX_TABLE_ROWS };
 
 const ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
 
@@ -29,14 +29,23 @@ function formatCell(v: Cell | undefined): string {
   return String(v);
 }
 
-function table(columns: readonly string[], rows: ReadonlyArray<ReadonlyArray<Cell | undefined>>, total?: number, className = ''): string {
+/**
+ * A table of at most MAX_TABLE_ROWS rows; when `total` says there are more, a note names `file`, the Parquet file (or
+ * folder) in the output folder that holds them all.
+ */
+function table(
+  columns: readonly string[],
+  rows: ReadonlyArray<ReadonlyArray<Cell | undefined>>,
+  options: { total?: number; className?: string; file?: string } = {},
+): string {
+  const { total, className = '', file = 'the Parquet files' } = options;
   const shown = rows.slice(0, MAX_TABLE_ROWS);
   const head = columns.map((c) => `<th scope="col">${escapeHtml(c)}</th>`).join('');
   const body = shown
     .map((r) => `<tr>${r.map((v) => `<td${typeof v === 'number' ? ' class="num"' : ''}>${escapeHtml(formatCell(v))}</td>`).join('')}</tr>`)
     .join('\n');
   const all = total ?? rows.length;
-  const more = all > shown.length ? `<p class="note">Showing ${shown.length} of ${all} rows; the full table is in the Parquet file.</p>` : '';
+  const more = all > shown.length ? `<p class="note">Showing ${shown.length} of ${all} rows; every row is in ${escapeHtml(file)} in the output folder.</p>` : '';
   return `<div class="scroll"><table${className ? ` class="${className}"` : ''}><thead><tr>${head}</tr></thead><tbody>\n${body}\n</tbody></table></div>${more}`;
 }
 
@@ -100,7 +109,7 @@ function convergenceTableHtml(rows: readonly ConvergenceRow[]): string {
     r.verdict,
     r.advice,
   ]);
-  return table(columns, body, rows.length, 'convergence');
+  return table(columns, body, { total: rows.length, className: 'convergence', file: 'convergence.parquet' });
 }
 
 /** Where each earth model stands; the report says it beside the comparison (see README "Earth models"). */
@@ -111,12 +120,11 @@ const CURVATURE_NOTE =
   'terrain, the geomagnetic field or the day/night changes of the ionosphere; where the sky wave dominates (VLF/LF ' +
   'beyond a few hundred kilometres at night) a receiver will not measure these numbers.';
 
-function curvatureTableHtml(rows: readonly CurvatureRow[]): string {
+function curvatureTableHtml(rows: readonly CurvatureRow[], total: number): string {
   return table(
     ['group', 'earth radius (km)', 'range (km)', 'flat (dB µV/m)', 'sphere (dB µV/m)', 'sphere − flat (dB)', 'phase difference (°)'],
     rows.map((r) => [r.group || 'all runs', r.earth_radius_m / 1000, r.range_m / 1000, r.flat_db, r.sphere_db, r.difference_db, r.phase_difference_deg]),
-    rows.length,
-    'curvature',
+    { total, className: 'curvature', file: 'fields/ (the flat and spherical runs\u2019 fields at every receiver)' },
   );
 }
 
@@ -132,6 +140,7 @@ function sensitivityTableHtml(rows: readonly SensitivityRow[]): string {
       r.samples,
       r.r_squared,
     ]),
+    { total: rows.length, file: 'sensitivity.parquet' },
   );
 }
 
@@ -151,7 +160,8 @@ function warningsSection(warnings: readonly ReportWarning[]): string {
       .slice(0, MAX_TABLE_ROWS)
       .map((w) => `<li>${w.job_id ? `<code>${escapeHtml(w.job_id.slice(0, 12))}</code> ` : ''}${escapeHtml(w.message)}</li>`)
       .join('');
-    const more = mine.length > MAX_TABLE_ROWS ? `<p class="note">and ${mine.length - MAX_TABLE_ROWS} more.</p>` : '';
+    const where = kind === 'unconverged_mesh' ? 'convergence.parquet' : 'runs.parquet (columns warnings and error)';
+    const more = mine.length > MAX_TABLE_ROWS ? `<p class="note">and ${mine.length - MAX_TABLE_ROWS} more, in ${where}.</p>` : '';
     return [`<div class="warning-group" data-kind="${kind}"><h3>${escapeHtml(WARNING_TITLE[kind])} (${mine.length})</h3><ul>${items}</ul>${more}</div>`];
   });
   return `<section id="warnings"><h2>Warnings</h2>${parts.join('')}</section>`;
@@ -198,16 +208,16 @@ footer { font-size: 12px; color: #666; padding: 0 32px 24px; }
 /** Build the report page. Validates `data` first, so a malformed structure fails loudly here and not in a browser. */
 export async function buildReportHtml(input: ReportDataInput): Promise<string> {
   const data = ReportDataSchema.parse(input);
-  const fieldFigures = await Promise.all(fieldPlots(data.field_series, data.sweep.varied).map(figure));
+  const fieldFigures = await Promise.all(fieldPlots(data.fields).map(figure));
   const convFigures = await Promise.all(convergencePlots(data.convergence).map(figure));
   const sensFigures = await Promise.all(sensitivityPlots(data.sensitivity).map(figure));
-  const curvatureFigures = await Promise.all(curvaturePlots(data.curvature).map(figure));
+  const curvatureFigures = await Promise.all(curvaturePlots(data.curvature, data.curvature_total).map(figure));
   const curvature =
     data.curvature.length === 0
       ? ''
-      : `<section id="curvature"><h2>Earth curvature</h2><p class="note">${escapeHtml(CURVATURE_NOTE)}</p><div class="plots">${curvatureFigures.join('\n')}</div>${curvatureTableHtml(data.curvature)}</section>`;
+      : `<section id="curvature"><h2>Earth curvature</h2><p class="note">${escapeHtml(CURVATURE_NOTE)}</p><div class="plots">${curvatureFigures.join('\n')}</div>${curvatureTableHtml(data.curvature, data.curvature_total?.rows ?? data.curvature.length)}</section>`;
   const fields =
-    data.field_series.length === 0
+    data.fields.runs === 0
       ? '<p>No finished runs yet.</p>'
       : `<div class="plots">${fieldFigures.join('\n')}</div>`;
   const convergence =
@@ -236,7 +246,7 @@ ${summarySection(data)}
 ${curvature}
 <section id="convergence"><h2>Grid convergence</h2>${convergence}</section>
 <section id="sensitivity"><h2>Sensitivity</h2>${sensitivity}</section>
-<section id="runs"><h2>Runs</h2>${table(data.runs.columns, data.runs.rows, data.runs.total)}</section>
+<section id="runs"><h2>Runs</h2>${table(data.runs.columns, data.runs.rows, { total: data.runs.total, file: 'runs.parquet' })}</section>
 ${warningsSection(data.warnings)}
 </main>
 <footer>Made by ${escapeHtml(data.generated_by)}. Field strengths are rms, in dB above 1 µV/m; phases in degrees (e<sup>jωt</sup> convention).</footer>

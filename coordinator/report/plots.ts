@@ -2,11 +2,10 @@
 // SVG strings headless with vega's View (no browser, no canvas, no network, no web fonts).
 import * as vega from 'vega';
 import { compile, type TopLevelSpec } from 'vega-lite';
-import { C0 } from '../../solver/constants.js';
 import { type ConvergenceRow } from '../../schemas/analysis-rows.js';
 import { type SensitivityRow } from '../../schemas/analysis-rows.js';
-import type { CurvatureRow, FieldSeries, VariedInput } from './data.js';
-import { residualPhaseDeg } from '../analysis/residual-phase.js';
+import type { CurvatureRow, FieldSummary } from './data.js';
+import { evenIndices, MAX_DRAWN_RUNS, MAX_RANGES_PER_LINE as MAX_PLOTTED_RANGES } from '../analysis/field-spread.js';
 
 /** One plot as the report embeds it. */
 export interface Plot {
@@ -27,76 +26,102 @@ const CONFIG = {
   title: { fontSize: 13, anchor: 'start' as const },
 };
 
-/** Most runs drawn as lines in one field plot; beyond it an evenly spaced subset is drawn (and said so). */
-export const MAX_FIELD_LINES = 200;
+/** Colours along viridis, stopping short of its palest yellow (thin lines on white stay visible). */
+const GROUP_SCHEME = { name: 'viridis', extent: [0, 0.88] };
 
-function evenlySpaced<T>(items: readonly T[], max: number): T[] {
-  if (items.length <= max) return [...items];
-  return Array.from({ length: max }, (_, k) => items[Math.floor((k * items.length) / max)]);
+/** Most ranges for which a line gets a point marker as well (beyond it the markers would merge into the line). */
+const MAX_MARKED_RANGES = 30;
+
+function percent(p: number): number {
+  return Math.round(100 * p);
 }
 
-/** Most distinct values of an input given one legend entry each; more get a continuous colour ramp. */
-const MAX_LEGEND_ENTRIES = 10;
-
-/** Colour encoding for one varied input: one entry per value for a few values, a ramp for many. */
-function colourEncoding(input: VariedInput | null): Record<string, unknown> {
-  if (input === null) return { field: 'colour', type: 'nominal', title: 'run' };
-  if (input.min === null || input.distinct <= MAX_LEGEND_ENTRIES) {
-    return { field: 'colour', type: 'ordinal', title: input.path, scale: { scheme: 'viridis' } };
-  }
-  // Decades (conductivity, frequency over a wide band) read better on a log colour scale.
-  const log = input.max !== null && input.min > 0 && input.max / input.min >= 100;
-  return {
-    field: 'colour',
-    type: 'quantitative',
-    title: input.path,
-    scale: { scheme: 'viridis', ...(log ? { type: 'log' } : {}) },
-    legend: { type: 'gradient' },
-  };
-}
-
-/** Field strength and phase against range, coloured by one varied input. */
-export function fieldPlots(series: readonly FieldSeries[], varied: readonly VariedInput[]): Plot[] {
-  const drawn = evenlySpaced(series, MAX_FIELD_LINES);
-  const note = drawn.length < series.length ? ` (${drawn.length} of ${series.length} runs drawn, evenly spaced)` : '';
-  const inputs: Array<VariedInput | null> = varied.length > 0 ? varied.slice(0, 6) : [null];
+/**
+ * Field strength and residual phase against range, two plots per input the summary groups by: for each group of
+ * runs (one per value of the input, or bins of it) the median as a line and the band between the summary's quantiles
+ * shaded, with the few runs drawn whole as thin lines in their group's colour. Sizes are bounded by the summary.
+ */
+export function fieldPlots(summary: FieldSummary): Plot[] {
+  if (summary.runs === 0) return [];
+  const [lowP, highP] = summary.band;
+  const drawnNote =
+    summary.drawn.length === summary.runs
+      ? `thin lines: every run (${summary.runs})`
+      : `thin lines: ${summary.drawn.length} of the ${summary.runs} runs, evenly chosen`;
+  const rangeNote =
+    summary.ranges_plotted < summary.ranges ? `; ${summary.ranges_plotted} of the ${summary.ranges} receiver ranges shown, evenly chosen` : '';
   const plots: Plot[] = [];
-  for (const input of inputs) {
-    const colourField = input?.column ?? 'run';
-    const colour = colourEncoding(input);
+  for (const spread of summary.spreads) {
+    const labels = spread.groups.map((g) => g.label);
+    // The legend shows each group's line (not the pale band), in rows of three (two for long bin labels)
+    // so the legend is no wider than the plot.
+    const colour = {
+      field: 'group',
+      type: 'ordinal',
+      title: spread.path ?? 'runs',
+      scale: { domain: labels, scheme: GROUP_SCHEME },
+      sort: labels,
+      legend: { columns: labels.some((l) => l.length > 12) ? 2 : 3, symbolType: 'stroke', symbolStrokeWidth: 3, symbolOpacity: 1 },
+    };
     for (const quantity of ['db', 'phase'] as const) {
-      const values = drawn.flatMap((s) => {
-        const c = input ? s.params[input.column] : s.job_id.slice(0, 8);
-        const pts =
-          quantity === 'db'
-            ? s.points.map((p) => ({ range_m: p.range_m, value: p.ez_db_uv_per_m }))
-            : residualPhaseDeg(s);
-        return pts.map((p) => ({ range_km: p.range_m / 1000, value: p.value, colour: c, job: s.job_id }));
-      });
+      const band = spread.points.map((p) => ({
+        range_km: p.range_m / 1000,
+        group: labels[p.group],
+        low: quantity === 'db' ? p.db_low : p.phase_low_deg,
+        median: quantity === 'db' ? p.db_median : p.phase_median_deg,
+        high: quantity === 'db' ? p.db_high : p.phase_high_deg,
+      }));
+      const lines = summary.drawn.flatMap((run, k) =>
+        run.points.map((p) => ({
+          range_km: p.range_m / 1000,
+          value: quantity === 'db' ? p.ez_db_uv_per_m : p.residual_phase_deg,
+          group: labels[spread.drawn_groups[k]],
+          job: run.job_id,
+        })),
+      );
       const yTitle = quantity === 'db' ? 'Ez (dB µV/m)' : 'residual phase (°)';
+      const x = { field: 'range_km', type: 'quantitative', title: 'range (km)' };
+      const what =
+        quantity === 'db'
+          ? 'Vertical electric field at the receivers, rms, in dB above 1 µV/m'
+          : 'Residual phase: phase of Ez plus 360°·f·r/c, i.e. what is left after the free-space delay, unwrapped along range and aligned between runs by whole turns';
+      const groupsText = spread.path === null ? 'over all runs' : spread.grouping === 'bins'
+            ? `over the runs of each bin of ${spread.path} (${spread.groups.length} bins of about equal run count)`
+            : `over the runs of each value of ${spread.path}`;
       plots.push({
-        id: `field-${quantity}-${colourField}`,
-        title: `${quantity === 'db' ? 'Field strength' : 'Phase'} against range${input ? `, coloured by ${input.path}` : ''}`,
+        id: `field-${quantity}-${spread.column ?? 'run'}`,
+        title: `${quantity === 'db' ? 'Field strength' : 'Phase'} against range${spread.path ? `, by ${spread.path}` : ''}`,
         caption:
-          (quantity === 'db'
-            ? 'Vertical electric field at the receivers, rms, in dB above 1 µV/m; one line per run'
-            : 'Residual phase: phase of Ez plus 360°·f·r/c, i.e. what is left after the free-space delay, unwrapped along range; one line per run') +
-          note +
-          '.',
+          `${what}. Thick line: median, shaded: ${percent(lowP)}–${percent(highP)} % band ${groupsText}; ${drawnNote}${rangeNote}. ` +
+          `Quantiles by ${summary.quantile_method}; the full fields are in fields/.`,
         spec: {
           $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
           width: 440,
           height: 240,
-          data: { values },
-          mark: { type: 'line', point: { size: 18 }, strokeWidth: 1.2, opacity: 0.85 },
-          encoding: {
-            x: { field: 'range_km', type: 'quantitative', title: 'range (km)' },
-            y: { field: 'value', type: 'quantitative', title: yTitle, scale: { zero: false } },
-            color: colour as never,
-            detail: { field: 'job', type: 'nominal' },
-          },
+          layer: [
+            {
+              data: { values: band },
+              mark: { type: 'area', opacity: 0.2, interpolate: 'linear' },
+              encoding: {
+                x,
+                y: { field: 'low', type: 'quantitative', title: yTitle, scale: { zero: false } },
+                y2: { field: 'high' },
+                color: colour,
+              },
+            },
+            {
+              data: { values: lines },
+              mark: { type: 'line', strokeWidth: 0.6, opacity: 0.45 },
+              encoding: { x, y: { field: 'value', type: 'quantitative' }, color: colour, detail: { field: 'job', type: 'nominal' } },
+            },
+            {
+              data: { values: band },
+              mark: { type: 'line', strokeWidth: 2, ...(summary.ranges_plotted <= MAX_MARKED_RANGES ? { point: { size: 20 } } : {}) },
+              encoding: { x, y: { field: 'median', type: 'quantitative' }, color: colour },
+            },
+          ],
           config: CONFIG,
-        },
+        } as TopLevelSpec,
       });
     }
   }
@@ -104,8 +129,10 @@ export function fieldPlots(series: readonly FieldSeries[], varied: readonly Vari
 }
 
 /** What curvature does: sphere minus flat field strength against range, one line per earth radius and group. */
-export function curvaturePlots(rows: readonly CurvatureRow[]): Plot[] {
+export function curvaturePlots(rows: readonly CurvatureRow[], total: { rows: number; lines: number } | null = null): Plot[] {
   if (rows.length === 0) return [];
+  const drawnLines = new Set(rows.map((r) => `${r.group}\u0000${r.earth_radius_m}`)).size;
+  const note = total === null ? '' : ` ${drawnLines} of the ${total.lines} pairs drawn, evenly chosen, at up to ${MAX_PLOTTED_RANGES} ranges each; every receiver of every run is in fields/.`;
   const values = rows.map((r) => ({
     range_km: r.range_m / 1000,
     difference: r.difference_db,
@@ -116,7 +143,7 @@ export function curvaturePlots(rows: readonly CurvatureRow[]): Plot[] {
       id: 'curvature-db',
       title: 'What the curvature of the earth does to field strength',
       caption:
-        'Field strength over the spherical earth minus that over the flat earth, for otherwise-equal runs; one line per earth radius. Below zero, the flat earth overstates the field.',
+        'Field strength over the spherical earth minus that over the flat earth, for otherwise-equal runs; one line per earth radius. Below zero, the flat earth overstates the field.' + note,
       spec: {
         $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
         width: 440,
@@ -141,12 +168,20 @@ export function curvaturePlots(rows: readonly CurvatureRow[]): Plot[] {
 
 const OUTPUT_LABEL: Record<string, string> = { ez_db_uv_per_m: 'Ez (dB µV/m)', ez_phase_deg: 'phase of Ez (°)' };
 
-/** Difference from the finest grid against resolution, one line per group and receiver, for each output. */
+/** Most lines (group and receiver) drawn in a convergence plot; beyond it an even choice (the table has them all). */
+export const MAX_CONVERGENCE_LINES = MAX_DRAWN_RUNS;
+
+/**
+ * Difference from the finest grid against resolution, one line per group and receiver (at most
+ * MAX_CONVERGENCE_LINES, evenly chosen), for each output.
+ */
 export function convergencePlots(rows: readonly ConvergenceRow[]): Plot[] {
   const plots: Plot[] = [];
   for (const output of ['ez_db_uv_per_m', 'ez_phase_deg'] as const) {
-    const mine = rows.filter((r) => r.output === output);
-    if (mine.length === 0) continue;
+    const all = rows.filter((r) => r.output === output);
+    if (all.length === 0) continue;
+    const mine = evenIndices(all.length, MAX_CONVERGENCE_LINES).map((i) => all[i]);
+    const note = mine.length < all.length ? ` ${mine.length} of the ${all.length} lines drawn, evenly chosen; convergence.parquet has them all.` : '';
     const values = mine.flatMap((r) => {
       const levels = JSON.parse(r.levels_json) as Array<[number, number]>;
       const finest = levels[0][1];
@@ -161,7 +196,7 @@ export function convergencePlots(rows: readonly ConvergenceRow[]): Plot[] {
     plots.push({
       id: `convergence-${output}`,
       title: `Convergence of ${OUTPUT_LABEL[output]}`,
-      caption: `Each line is one group of otherwise-equal runs at one receiver: the output on each grid minus the output on the finest grid, against ${axis === 'cells_per_wavelength' ? 'cells per wavelength' : 'cell size (m)'}. Lines flattening towards zero mean a converging mesh.`,
+      caption: `Each line is one group of otherwise-equal runs at one receiver: the output on each grid minus the output on the finest grid, against ${axis === 'cells_per_wavelength' ? 'cells per wavelength' : 'cell size (m)'}. Lines flattening towards zero mean a converging mesh.${note}`,
       spec: {
         $schema: 'https://vega.github.io/schema/vega-lite/v5.json',
         width: 440,
