@@ -1,17 +1,22 @@
 // Job identity: the same validated case is the same job on any machine and in any sweep, so a re-submitted sweep
-// skips what is done and never queues a twin. A change of the solver's major version makes every job new.
+// skips what is done and never queues a twin. A change of the solver's major version makes every job new; a new
+// option whose default keeps the old behaviour does not (defaults are left out of the canonical form).
 import { createHash } from 'node:crypto';
 import { createRequire } from 'node:module';
 import type { Case } from '../../schemas/case.js';
+import { withoutDefaults } from '../../schemas/canonical-case.js';
 import { SOLVER_MAJOR } from '../../solver/version.js';
 
 // canonicalize is CommonJS whose typings claim an ES default export; load it as what it is (module.exports = fn).
 const canonicalize = createRequire(import.meta.url)('canonicalize') as (value: unknown) => string | undefined;
 
-/** The canonical text a job id hashes: RFC 8785 JSON of the case, a newline, and the solver's major version tag. */
+/**
+ * The canonical text a job id hashes: RFC 8785 JSON of the case without its default values, a newline, and the
+ * solver's major version tag.
+ */
 export function jobIdText(c: Case, solverMajor: string = SOLVER_MAJOR): string {
   // RFC 8785 (JSON Canonicalization Scheme): sorted keys, ECMAScript number formatting, no white space.
-  const canonical = canonicalize(c);
+  const canonical = canonicalize(withoutDefaults(c));
   if (canonical === undefined) throw new Error('jobIdText: the case has no JSON form');
   return `${canonical}\nloamwave-solver-${solverMajor}`;
 }
