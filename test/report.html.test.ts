@@ -14,7 +14,7 @@ import { fieldSpread, MAX_DRAWN_RUNS, SPREAD_BINS, type SpreadRun } from '../coo
 import { C0 } from '../solver/constants.js';
 import { checkReportPage, launchChromium, WINDOW_WIDTH_PX, type Browser } from './report.page-check.js';
 import { assembleReportData } from '../coordinator/report/assembly.js';
-import { MAX_TABLE_ROWS } from '../coordinator/report/data.js';
+import { MAX_CONVERGENCE_LINES, MAX_SENSITIVITY_CHARTS, MAX_TABLE_ROWS } from '../coordinator/report/data.js';
 import { MAX_RANGES_PER_LINE, MAX_SPREAD_GROUPS } from '../coordinator/analysis/field-spread.js';
 import { largeSweepTables } from '../bench/large-sweep-tables.js';
 
@@ -206,11 +206,29 @@ describe('report page of a large sweep', () => {
   let html = '';
   let browser: Browser;
 
+  // A made-up resolution study beside it: the second-order series of buildData's convergence, at tolerances it
+  // fails, copied to 40 groups × 500 receivers × 2 outputs (40,000 rows, every one a warning).
+  const CONVERGENCE_GROUPS = 40;
+  const CONVERGENCE_ROWS = CONVERGENCE_GROUPS * 500 * 2;
+
   beforeAll(async () => {
     const tables = largeSweepTables();
     expect(tables.runs).toHaveLength(2000);
     expect(tables.fields).toHaveLength(2000 * 500);
-    data = assembleReportData(tables, { generatedBy: 'loamwave test' });
+    const levels: ConvergenceRun[] = [8, 11, 16].map((cpw) => ({
+      params: { grid_cells_per_wavelength: cpw },
+      resolution: cpw,
+      receivers: [{ range_m: 50e3, height_m: 0, ez_db_uv_per_m: 70 + 30 / cpw ** 2, ez_phase_deg: -40 - 20 / cpw ** 2 }],
+    }));
+    const pair = convergenceTable(levels, { axis: 'cells_per_wavelength', toleranceDb: 1e-3, tolerancePhaseDeg: 1e-3 });
+    expect(pair.map((r) => r.verdict)).toEqual(['refine', 'refine']);
+    const convergence = Array.from({ length: CONVERGENCE_GROUPS }, (_, g) =>
+      [...new Set(tables.fields.slice(0, 500).map((f) => f.range_m))].flatMap((range_m) =>
+        pair.map((r) => ({ ...r, group: JSON.stringify({ frequency_hz: 1000 * g }), range_m })),
+      ),
+    ).flat();
+    expect(convergence).toHaveLength(CONVERGENCE_ROWS);
+    data = assembleReportData({ ...tables, convergence }, { generatedBy: 'loamwave test' });
     html = await buildReportHtml(data);
     mkdirSync(OUT, { recursive: true });
     writeFileSync(resolve(OUT, 'report-large.html'), html);
@@ -236,14 +254,33 @@ describe('report page of a large sweep', () => {
     }
     expect(data.runs.rows).toHaveLength(MAX_TABLE_ROWS);
     expect(data.runs.total).toBe(2000);
+    // The other tables: the table's first rows and what the plots draw, with the totals the page states.
+    expect(data.convergence).toHaveLength(MAX_TABLE_ROWS);
+    expect(data.convergence_summary).toEqual({
+      rows: CONVERGENCE_ROWS,
+      verdicts: { refine: CONVERGENCE_ROWS },
+      rows_per_output: { ez_db_uv_per_m: CONVERGENCE_ROWS / 2, ez_phase_deg: CONVERGENCE_ROWS / 2 },
+    });
+    expect(data.convergence_plotted).toHaveLength(2 * MAX_CONVERGENCE_LINES);
+    expect(data.sensitivity_total).toBe(6000);
+    expect(data.sensitivity.length).toBeLessThan(6000);
+    expect(data.warnings).toHaveLength(MAX_TABLE_ROWS);
+    expect(data.warning_counts).toEqual({ unconverged_mesh: CONVERGENCE_ROWS });
+    // The whole structure, as JSON: a few MB at most whatever the sweep (1.3 MB measured with the convergence rows, 1.2 MB of it the spreads).
+    expect(JSON.stringify(data).length).toBeLessThan(MAX_PAGE_BYTES);
   });
 
   it('when built then the page is at most 5 MB and the capped tables point to their Parquet files', () => {
     expect(Buffer.byteLength(html)).toBeLessThanOrEqual(MAX_PAGE_BYTES);
     expect(html).toContain(`Showing ${MAX_TABLE_ROWS} of 2000 rows; every row is in runs.parquet`);
-    expect(html).toContain(`Showing ${MAX_TABLE_ROWS} of ${data.sensitivity.length} rows; every row is in sensitivity.parquet`);
+    expect(html).toContain(`Showing ${MAX_TABLE_ROWS} of ${data.sensitivity_total} rows; every row is in sensitivity.parquet`);
     expect(html).toContain(`${MAX_DRAWN_RUNS} of the 2000 runs, evenly chosen`);
     expect(html).toContain(`${MAX_RANGES_PER_LINE} of the 500 receiver ranges shown`);
+    expect(html).toContain(`Showing ${MAX_TABLE_ROWS} of ${CONVERGENCE_ROWS} rows; every row is in convergence.parquet`);
+    expect(html).toContain(`0 converged, ${CONVERGENCE_ROWS} need a finer grid, 0 unreliable (of ${CONVERGENCE_ROWS} outputs)`);
+    expect(html).toContain(`${MAX_CONVERGENCE_LINES} of the ${CONVERGENCE_ROWS / 2} lines drawn`);
+    expect(html).toContain(`Unconverged meshes (${CONVERGENCE_ROWS})`);
+    expect(html).toContain(`and ${CONVERGENCE_ROWS - MAX_TABLE_ROWS} more, in convergence.parquet`);
   });
 
   it('when opened in Chromium then every plot renders marks, nothing errs and nothing is fetched', async () => {
@@ -253,7 +290,8 @@ describe('report page of a large sweep', () => {
       `field-phase-${c}`,
     ]);
     expect(page.plots.filter((p) => p.startsWith('field-'))).toEqual(fieldIds);
-    expect(page.plots.filter((p) => p.startsWith('sensitivity-'))).toHaveLength(12);
+    expect(page.plots.filter((p) => p.startsWith('sensitivity-'))).toHaveLength(MAX_SENSITIVITY_CHARTS);
+    expect(page.plots.filter((p) => p.startsWith('convergence-'))).toEqual(['convergence-ez_db_uv_per_m', 'convergence-ez_phase_deg']);
     for (const id of page.plots) {
       expect(page.marks[id].paths, id).toBeGreaterThan(0);
       expect(page.marks[id].widthPx, id).toBeGreaterThan(200);

@@ -1,6 +1,7 @@
 // Turns the tables of an output folder (plain rows, as read) into the report's data: the convergence and
-// sensitivity tables when the folder has none, the field series, the warnings and the summary. Pure: rows in,
-// ReportData out; the folder reading lives in analysis/read-tables.ts.
+// sensitivity tables when the folder has none, the spread of the fields, the warnings and the summary, each bounded
+// in size whatever the sweep's (the Parquet files hold every row). Pure: rows in, ReportData out; the folder
+// reading lives in analysis/read-tables.ts.
 import { describeGroup } from '../analysis/grid-convergence.js';
 import { type ConvergenceRow } from '../../schemas/analysis-rows.js';
 import {
@@ -16,7 +17,16 @@ import {
 } from '../analysis/compute-tables.js';
 import type { FolderTables } from '../analysis/read-tables.js';
 import type { Sweep } from '../../schemas/sweep.js';
-import { MAX_TABLE_ROWS, type CurvatureRow, type ReportData, type ReportWarning, type VariedInput } from './data.js';
+import {
+  MAX_CONVERGENCE_LINES,
+  MAX_SENSITIVITY_CHARTS,
+  MAX_TABLE_ROWS,
+  type CurvatureRow,
+  type ReportData,
+  type ReportWarning,
+  type VariedInput,
+} from './data.js';
+import type { SensitivityRow } from '../../schemas/analysis-rows.js';
 import type { Cell } from '../analysis/read-tables.js';
 import { evenIndices, fieldSpread, MAX_DRAWN_RUNS, MAX_RANGES_PER_LINE, type SpreadRun } from '../analysis/field-spread.js';
 import { columnNameFor } from '../../schemas/table-rows.js';
@@ -128,6 +138,55 @@ function boundedCurvature(rows: readonly CurvatureRow[]): { rows: CurvatureRow[]
   return { rows: kept, total: kept.length < rows.length ? { rows: rows.length, lines: lines.length } : null };
 }
 
+function countBy<T>(items: readonly T[], key: (item: T) => string): Record<string, number> {
+  const out: Record<string, number> = {};
+  for (const i of items) out[key(i)] = (out[key(i)] ?? 0) + 1;
+  return out;
+}
+
+/**
+ * The convergence rows the report holds: all of them up to MAX_TABLE_ROWS; beyond, the table's first rows, the
+ * MAX_CONVERGENCE_LINES rows per output the plots draw (evenly chosen) and the counts the summary states.
+ */
+function boundedConvergence(rows: readonly ConvergenceRow[]): Pick<ReportData, 'convergence' | 'convergence_summary' | 'convergence_plotted'> {
+  if (rows.length <= MAX_TABLE_ROWS) return { convergence: [...rows], convergence_summary: null, convergence_plotted: null };
+  const byOutput = new Map<string, ConvergenceRow[]>();
+  for (const r of rows) {
+    const list = byOutput.get(r.output) ?? [];
+    list.push(r);
+    byOutput.set(r.output, list);
+  }
+  return {
+    convergence: rows.slice(0, MAX_TABLE_ROWS),
+    convergence_summary: {
+      rows: rows.length,
+      verdicts: countBy(rows, (r) => r.verdict),
+      rows_per_output: Object.fromEntries([...byOutput].map(([o, list]) => [o, list.length])),
+    },
+    convergence_plotted: [...byOutput.values()].flatMap((list) => evenIndices(list.length, MAX_CONVERGENCE_LINES).map((i) => list[i])),
+  };
+}
+
+/** The sensitivity rows the report holds: the table's first MAX_TABLE_ROWS and every row of the outputs charted. */
+function boundedSensitivity(rows: readonly SensitivityRow[]): Pick<ReportData, 'sensitivity' | 'sensitivity_total'> {
+  // sensitivityPlots charts the first outputs in row order, at most MAX_SENSITIVITY_CHARTS charts, so at most as many outputs.
+  const charted = new Set<string>();
+  for (const r of rows) {
+    if (charted.size >= MAX_SENSITIVITY_CHARTS) break;
+    charted.add(r.output);
+  }
+  const kept = rows.filter((r, i) => i < MAX_TABLE_ROWS || charted.has(r.output));
+  return { sensitivity: kept, sensitivity_total: kept.length < rows.length ? rows.length : null };
+}
+
+/** At most MAX_TABLE_ROWS warnings of each kind, with the counts when some kind had more. */
+function boundedWarnings(warnings: readonly ReportWarning[]): Pick<ReportData, 'warnings' | 'warning_counts'> {
+  const counts = countBy(warnings, (w) => w.kind);
+  const seen: Record<string, number> = {};
+  const kept = warnings.filter((w) => (seen[w.kind] = (seen[w.kind] ?? 0) + 1) <= MAX_TABLE_ROWS);
+  return { warnings: kept, warning_counts: kept.length < warnings.length ? counts : null };
+}
+
 function designText(sweep: Sweep): string {
   const d = sweep.design;
   if (d.kind === 'full_factorial') return 'full factorial';
@@ -178,8 +237,8 @@ export function assembleReportData(tables: FolderTables, options: AnalysisOption
       wall_time_s_total: tables.runs.reduce((s, r) => s + (num(r.wall_time_s) ?? 0), 0),
     },
     fields: fieldSpread(series, varied.slice(0, MAX_PLOTTED_INPUTS)),
-    convergence,
-    sensitivity,
+    ...boundedConvergence(convergence),
+    ...boundedSensitivity(sensitivity),
     sensitivity_note: notes.sensitivityNote ?? null,
     curvature: curvature.rows,
     curvature_total: curvature.total,
@@ -188,6 +247,6 @@ export function assembleReportData(tables: FolderTables, options: AnalysisOption
       rows: tables.runs.slice(0, MAX_TABLE_ROWS).map((r) => columns.map((c) => (c === 'job_id' ? String(r[c]).slice(0, 12) : (r[c] ?? null)))),
       total: tables.runs.length,
     },
-    warnings: [...warningsOf(tables, convergence), ...notes.warnings],
+    ...boundedWarnings([...warningsOf(tables, convergence), ...notes.warnings]),
   };
 }

@@ -6,7 +6,7 @@ import { SensitivityRowSchema } from '../../schemas/analysis-rows.js';
 
 export { CellSchema, type Cell } from '../analysis/read-tables.js';
 import { CellSchema } from '../analysis/read-tables.js';
-import { FieldSummarySchema } from '../analysis/field-spread.js';
+import { FieldSummarySchema, MAX_DRAWN_RUNS } from '../analysis/field-spread.js';
 export { FieldSummarySchema, type FieldSummary, type FieldSpread, type DrawnRun } from '../analysis/field-spread.js';
 
 /**
@@ -14,6 +14,12 @@ export { FieldSummarySchema, type FieldSummary, type FieldSpread, type DrawnRun 
  * every row is in the Parquet files the page points to. Bounds the page whatever the sweep's size.
  */
 export const MAX_TABLE_ROWS = 200;
+
+/** Most lines (group and receiver) drawn in a convergence plot; beyond it an even choice (the table has them all). */
+export const MAX_CONVERGENCE_LINES = MAX_DRAWN_RUNS;
+
+/** Most sensitivity charts (one per output and family of measures); the rest are in the table. */
+export const MAX_SENSITIVITY_CHARTS = 12;
 
 export const VariedInputSchema = z.strictObject({
   /** Sweep path, e.g. `ground.segments[0].conductivity_s_per_m`. */
@@ -90,8 +96,23 @@ export const ReportDataSchema = z.strictObject({
   }),
   /** Field strength and residual phase against range: per-group quantiles and a few runs (bounded in size). */
   fields: FieldSummarySchema,
+  /** Rows of convergence.parquet: all of them, or the first MAX_TABLE_ROWS when there are more (see the summary). */
   convergence: z.array(ConvergenceRowSchema),
+  /** When `convergence` holds only the first rows: how many rows there are, their verdicts and rows per output. */
+  convergence_summary: z
+    .strictObject({
+      rows: z.number().int().min(0),
+      verdicts: z.record(z.string(), z.number().int().min(0)),
+      rows_per_output: z.record(z.string(), z.number().int().min(0)),
+    })
+    .nullable()
+    .default(null),
+  /** The rows the convergence plots draw when `convergence` holds only the first rows (null: draw from it). */
+  convergence_plotted: z.array(ConvergenceRowSchema).nullable().default(null),
+  /** Rows of sensitivity.parquet: the first MAX_TABLE_ROWS and every row of the outputs charted, in table order. */
   sensitivity: z.array(SensitivityRowSchema),
+  /** How many sensitivity rows there are in all; null when `sensitivity` holds them all. */
+  sensitivity_total: z.number().int().min(0).nullable().default(null),
   /** How the sensitivity rows were obtained, when the reader needs to know (e.g. which grid level they use). */
   sensitivity_note: z.string().nullable().default(null),
   /**
@@ -108,7 +129,10 @@ export const ReportDataSchema = z.strictObject({
     /** Rows in runs.parquet (the table may show fewer). */
     total: z.number().int().min(0),
   }),
+  /** At most MAX_TABLE_ROWS warnings of each kind (the page shows no more). */
   warnings: z.array(ReportWarningSchema),
+  /** Warnings of each kind in all, when some kind had more than `warnings` holds; null otherwise. */
+  warning_counts: z.record(z.string(), z.number().int().min(0)).nullable().default(null),
 });
 export type ReportData = z.output<typeof ReportDataSchema>;
 /** Report data as a caller may give it (defaults not yet filled in). */

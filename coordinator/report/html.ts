@@ -62,7 +62,8 @@ const CAUTIONS = [
 
 function summarySection(d: ReportData): string {
   const s = d.sweep;
-  const conv = countBy(d.convergence.map((r) => r.verdict));
+  const conv = d.convergence_summary?.verdicts ?? countBy(d.convergence.map((r) => r.verdict));
+  const convTotal = d.convergence_summary?.rows ?? d.convergence.length;
   const facts: Array<[string, string]> = [
     ['Sweep', s.name],
     ['Design', s.design],
@@ -73,7 +74,7 @@ function summarySection(d: ReportData): string {
       'Grid convergence',
       d.convergence.length === 0
         ? 'not assessed (needs three or more resolution levels)'
-        : `${conv.converged ?? 0} converged, ${conv.refine ?? 0} need a finer grid, ${conv.unreliable ?? 0} unreliable (of ${d.convergence.length} outputs)`,
+        : `${conv.converged ?? 0} converged, ${conv.refine ?? 0} need a finer grid, ${conv.unreliable ?? 0} unreliable (of ${convTotal} outputs)`,
     ],
     ['Sweep file', s.file_name ?? '—'],
   ];
@@ -92,7 +93,7 @@ function countBy(items: readonly string[]): Record<string, number> {
   return out;
 }
 
-function convergenceTableHtml(rows: readonly ConvergenceRow[]): string {
+function convergenceTableHtml(rows: readonly ConvergenceRow[], total: number): string {
   // No relative GCI column: for outputs in dB and degrees it has no meaning (convergence.parquet leaves it null);
   // the uncertainty band in the output's own unit carries the verdict.
   const columns = ['group', 'output', 'range (km)', 'levels', 'finest', 'order p', 'extrapolated', 'uncertainty', 'behaviour', 'verdict', 'what to do'];
@@ -109,7 +110,7 @@ function convergenceTableHtml(rows: readonly ConvergenceRow[]): string {
     r.verdict,
     r.advice,
   ]);
-  return table(columns, body, { total: rows.length, className: 'convergence', file: 'convergence.parquet' });
+  return table(columns, body, { total, className: 'convergence', file: 'convergence.parquet' });
 }
 
 /** Where each earth model stands; the report says it beside the comparison (see README "Earth models"). */
@@ -128,7 +129,7 @@ function curvatureTableHtml(rows: readonly CurvatureRow[], total: number): strin
   );
 }
 
-function sensitivityTableHtml(rows: readonly SensitivityRow[]): string {
+function sensitivityTableHtml(rows: readonly SensitivityRow[], total: number): string {
   return table(
     ['output', 'parameter', 'measure', 'value', 'interval', 'samples', 'R²'],
     rows.map((r) => [
@@ -140,7 +141,7 @@ function sensitivityTableHtml(rows: readonly SensitivityRow[]): string {
       r.samples,
       r.r_squared,
     ]),
-    { total: rows.length, file: 'sensitivity.parquet' },
+    { total, file: 'sensitivity.parquet' },
   );
 }
 
@@ -151,18 +152,21 @@ const WARNING_TITLE: Record<ReportWarning['kind'], string> = {
   solver: 'Other solver warnings',
 };
 
-function warningsSection(warnings: readonly ReportWarning[]): string {
+/** `counts`: warnings of each kind in all, when `warnings` holds only the first of some kind. */
+function warningsSection(warnings: readonly ReportWarning[], counts: Readonly<Record<string, number>> | null): string {
   if (warnings.length === 0) return '<section id="warnings"><h2>Warnings</h2><p>No warnings.</p></section>';
   const parts = (Object.keys(WARNING_TITLE) as Array<ReportWarning['kind']>).flatMap((kind) => {
     const mine = warnings.filter((w) => w.kind === kind);
     if (mine.length === 0) return [];
+    const all = Math.max(mine.length, counts?.[kind] ?? 0);
     const items = mine
       .slice(0, MAX_TABLE_ROWS)
       .map((w) => `<li>${w.job_id ? `<code>${escapeHtml(w.job_id.slice(0, 12))}</code> ` : ''}${escapeHtml(w.message)}</li>`)
       .join('');
     const where = kind === 'unconverged_mesh' ? 'convergence.parquet' : 'runs.parquet (columns warnings and error)';
-    const more = mine.length > MAX_TABLE_ROWS ? `<p class="note">and ${mine.length - MAX_TABLE_ROWS} more, in ${where}.</p>` : '';
-    return [`<div class="warning-group" data-kind="${kind}"><h3>${escapeHtml(WARNING_TITLE[kind])} (${mine.length})</h3><ul>${items}</ul>${more}</div>`];
+    const shown = Math.min(mine.length, MAX_TABLE_ROWS);
+    const more = all > shown ? `<p class="note">and ${all - shown} more, in ${where}.</p>` : '';
+    return [`<div class="warning-group" data-kind="${kind}"><h3>${escapeHtml(WARNING_TITLE[kind])} (${all})</h3><ul>${items}</ul>${more}</div>`];
   });
   return `<section id="warnings"><h2>Warnings</h2>${parts.join('')}</section>`;
 }
@@ -209,7 +213,7 @@ footer { font-size: 12px; color: #666; padding: 0 32px 24px; }
 export async function buildReportHtml(input: ReportDataInput): Promise<string> {
   const data = ReportDataSchema.parse(input);
   const fieldFigures = await Promise.all(fieldPlots(data.fields).map(figure));
-  const convFigures = await Promise.all(convergencePlots(data.convergence).map(figure));
+  const convFigures = await Promise.all(convergencePlots(data.convergence_plotted ?? data.convergence, data.convergence_summary?.rows_per_output ?? null).map(figure));
   const sensFigures = await Promise.all(sensitivityPlots(data.sensitivity).map(figure));
   const curvatureFigures = await Promise.all(curvaturePlots(data.curvature, data.curvature_total).map(figure));
   const curvature =
@@ -223,11 +227,11 @@ export async function buildReportHtml(input: ReportDataInput): Promise<string> {
   const convergence =
     data.convergence.length === 0
       ? '<p>No resolution study: vary a <code>grid.*</code> parameter over three or more levels to get a convergence verdict.</p>'
-      : `<div class="plots">${convFigures.join('\n')}</div><h3>Verdict per output</h3>${convergenceTableHtml(data.convergence)}`;
+      : `<div class="plots">${convFigures.join('\n')}</div><h3>Verdict per output</h3>${convergenceTableHtml(data.convergence, data.convergence_summary?.rows ?? data.convergence.length)}`;
   const sensitivity =
     data.sensitivity.length === 0
       ? '<p>No sensitivity indices (they need a sampled design, or a full factorial grid with two or more levels per input).</p>'
-      : `${data.sensitivity_note ? `<p class="note">${escapeHtml(data.sensitivity_note)}</p>` : ''}<div class="plots">${sensFigures.join('\n')}</div><h3>All indices</h3>${sensitivityTableHtml(data.sensitivity)}`;
+      : `${data.sensitivity_note ? `<p class="note">${escapeHtml(data.sensitivity_note)}</p>` : ''}<div class="plots">${sensFigures.join('\n')}</div><h3>All indices</h3>${sensitivityTableHtml(data.sensitivity, data.sensitivity_total ?? data.sensitivity.length)}`;
   return `<!DOCTYPE html>
 <html lang="en">
 <head>
@@ -247,7 +251,7 @@ ${curvature}
 <section id="convergence"><h2>Grid convergence</h2>${convergence}</section>
 <section id="sensitivity"><h2>Sensitivity</h2>${sensitivity}</section>
 <section id="runs"><h2>Runs</h2>${table(data.runs.columns, data.runs.rows, { total: data.runs.total, file: 'runs.parquet' })}</section>
-${warningsSection(data.warnings)}
+${warningsSection(data.warnings, data.warning_counts)}
 </main>
 <footer>Made by ${escapeHtml(data.generated_by)}. Field strengths are rms, in dB above 1 µV/m; phases in degrees (e<sup>jωt</sup> convention).</footer>
 </body>

@@ -4,8 +4,10 @@ import * as vega from 'vega';
 import { compile, type TopLevelSpec } from 'vega-lite';
 import { type ConvergenceRow } from '../../schemas/analysis-rows.js';
 import { type SensitivityRow } from '../../schemas/analysis-rows.js';
-import type { CurvatureRow, FieldSummary } from './data.js';
-import { evenIndices, MAX_DRAWN_RUNS, MAX_RANGES_PER_LINE as MAX_PLOTTED_RANGES } from '../analysis/field-spread.js';
+import { MAX_CONVERGENCE_LINES, MAX_SENSITIVITY_CHARTS, type CurvatureRow, type FieldSummary } from './data.js';
+import { evenIndices, MAX_RANGES_PER_LINE as MAX_PLOTTED_RANGES } from '../analysis/field-spread.js';
+
+export { MAX_CONVERGENCE_LINES, MAX_SENSITIVITY_CHARTS };
 
 /** One plot as the report embeds it. */
 export interface Plot {
@@ -168,20 +170,21 @@ export function curvaturePlots(rows: readonly CurvatureRow[], total: { rows: num
 
 const OUTPUT_LABEL: Record<string, string> = { ez_db_uv_per_m: 'Ez (dB µV/m)', ez_phase_deg: 'phase of Ez (°)' };
 
-/** Most lines (group and receiver) drawn in a convergence plot; beyond it an even choice (the table has them all). */
-export const MAX_CONVERGENCE_LINES = MAX_DRAWN_RUNS;
 
 /**
  * Difference from the finest grid against resolution, one line per group and receiver (at most
- * MAX_CONVERGENCE_LINES, evenly chosen), for each output.
+ * MAX_CONVERGENCE_LINES, evenly chosen), for each output. `rowsPerOutput`: how many rows each output has in all, when
+ * `rows` is a choice out of more.
  */
-export function convergencePlots(rows: readonly ConvergenceRow[]): Plot[] {
+export function convergencePlots(rows: readonly ConvergenceRow[], rowsPerOutput: Readonly<Record<string, number>> | null = null): Plot[] {
   const plots: Plot[] = [];
   for (const output of ['ez_db_uv_per_m', 'ez_phase_deg'] as const) {
     const all = rows.filter((r) => r.output === output);
     if (all.length === 0) continue;
     const mine = evenIndices(all.length, MAX_CONVERGENCE_LINES).map((i) => all[i]);
-    const note = mine.length < all.length ? ` ${mine.length} of the ${all.length} lines drawn, evenly chosen; convergence.parquet has them all.` : '';
+    // `rows` may already be a choice made by the assembly out of more (rowsPerOutput says how many).
+    const total = Math.max(all.length, rowsPerOutput?.[output] ?? 0);
+    const note = mine.length < total ? ` ${mine.length} of the ${total} lines drawn, evenly chosen; convergence.parquet has them all.` : '';
     const values = mine.flatMap((r) => {
       const levels = JSON.parse(r.levels_json) as Array<[number, number]>;
       const finest = levels[0][1];
@@ -226,8 +229,6 @@ export function convergencePlots(rows: readonly ConvergenceRow[]): Plot[] {
   return plots;
 }
 
-/** Most outputs given a sensitivity chart of their own; the rest are in the table. */
-export const MAX_SENSITIVITY_CHARTS = 12;
 
 const MEASURE_LABEL: Record<string, string> = {
   first_order: 'first order S',
