@@ -6,16 +6,16 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { convergenceTable, type ConvergenceRun } from '../coordinator/analysis/grid-convergence.js';
 import { saltelliIndices, saltelliRows } from '../coordinator/analysis/saltelli.js';
 import { saltelliDesign } from '../coordinator/sampling/saltelli-layout.js';
-import { ReportDataSchema, type ReportData } from '../coordinator/report/data.js';
+import { MAX_CONVERGENCE_LINES, MAX_SENSITIVITY_CHARTS, MAX_TABLE_ROWS, ReportDataSchema, type ReportData } from '../coordinator/report/data.js';
 import { buildReportHtml, escapeHtml } from '../coordinator/report/html.js';
 import { fieldPlots, renderSvg } from '../coordinator/report/plots.js';
 import { residualPhaseDeg } from '../coordinator/analysis/residual-phase.js';
-import { fieldSpread, MAX_DRAWN_RUNS, SPREAD_BINS, type SpreadRun } from '../coordinator/analysis/field-spread.js';
+import { fieldSpread, MAX_DRAWN_RUNS, MAX_RANGES_PER_LINE, MAX_SPREAD_GROUPS, SPREAD_BINS, type SpreadRun } from '../coordinator/analysis/field-spread.js';
 import { C0 } from '../solver/constants.js';
 import { checkReportPage, launchChromium, WINDOW_WIDTH_PX, type Browser } from './report.page-check.js';
-import { assembleReportData } from '../coordinator/report/assembly.js';
-import { MAX_CONVERGENCE_LINES, MAX_SENSITIVITY_CHARTS, MAX_TABLE_ROWS } from '../coordinator/report/data.js';
-import { MAX_RANGES_PER_LINE, MAX_SPREAD_GROUPS } from '../coordinator/analysis/field-spread.js';
+import { assembleReportData, MAX_CURVATURE_LINES } from '../coordinator/report/assembly.js';
+import { parseSweep } from '../coordinator/sweep/file.js';
+import type { FolderTables } from '../coordinator/analysis/read-tables.js';
 import { largeSweepTables } from '../bench/large-sweep-tables.js';
 
 const OUT = resolve('test-output');
@@ -266,7 +266,8 @@ describe('report page of a large sweep', () => {
     expect(data.sensitivity.length).toBeLessThan(6000);
     expect(data.warnings).toHaveLength(MAX_TABLE_ROWS);
     expect(data.warning_counts).toEqual({ unconverged_mesh: CONVERGENCE_ROWS });
-    // The whole structure, as JSON: a few MB at most whatever the sweep (1.3 MB measured with the convergence rows, 1.2 MB of it the spreads).
+    // The whole structure, as JSON: a few MB at most whatever the sweep (1.3 MB measured with the convergence
+    // rows, 1.2 MB of it the spreads).
     expect(JSON.stringify(data).length).toBeLessThan(MAX_PAGE_BYTES);
   });
 
@@ -300,4 +301,53 @@ describe('report page of a large sweep', () => {
     expect(page.requests).toEqual([]);
     expect(page.runRows).toBe(MAX_TABLE_ROWS);
   }, 60_000);
+});
+
+describe('earth curvature of a large sweep', () => {
+  it('when 60 flat-against-sphere pairs have 300 receivers each then the report holds 24 pairs of 200 ranges and says so', async () => {
+    // Made-up numbers (a test of the bounds, not of the physics): 60 frequencies × flat and spherical, the sphere
+    // 0.01 dB/km below the flat earth.
+    const frequencies = Array.from({ length: 60 }, (_, k) => 10e3 + 1e3 * k);
+    const ranges = Array.from({ length: 300 }, (_, k) => (k + 1) * 1000);
+    const sweep = parseSweep(
+      {
+        name: 'curvature-large-demo',
+        base: {
+          frequency_hz: 20000,
+          ground: { segments: [{ start_m: 0, conductivity_s_per_m: 0.003, relative_permittivity: 15 }] },
+          domain: { range_m: 320000, height_m: 60000 },
+          receivers: { ranges_m: ranges },
+        },
+        vary: { frequency_hz: { values: frequencies }, geometry: { values: ['axisymmetric', 'spherical'] } },
+      },
+      'sweep.yaml',
+    );
+    const runs = frequencies.flatMap((f) => ['axisymmetric', 'spherical'].map((geometry) => ({ job_id: `${geometry}${f}`, status: 'done', frequency_hz: f, geometry })));
+    const tables: FolderTables = {
+      sweep,
+      sweepFileName: 'sweep.yaml',
+      runColumns: ['job_id', 'status', 'frequency_hz', 'geometry'],
+      runs,
+      fields: runs.flatMap((r) =>
+        ranges.map((range_m) => ({
+          job_id: r.job_id,
+          range_m,
+          height_m: 0,
+          ez_db_uv_per_m: 80 - range_m / 1e4 - (r.geometry === 'spherical' ? range_m / 1e5 : 0),
+          ez_phase_deg: 0,
+        })),
+      ),
+      convergence: [],
+      sensitivity: [],
+    };
+    const data = assembleReportData(tables, { generatedBy: 'loamwave test' });
+    expect(data.curvature_total).toEqual({ rows: 60 * 300, lines: 60 });
+    expect(new Set(data.curvature.map((r) => r.group)).size).toBe(MAX_CURVATURE_LINES);
+    expect(data.curvature).toHaveLength(MAX_CURVATURE_LINES * MAX_RANGES_PER_LINE);
+    // −0.01 dB/km at every receiver kept; tolerance 1e-9 dB, far above the rounding of values near 80 dB (~1e-14).
+    for (const r of data.curvature) expect(Math.abs(r.difference_db + r.range_m / 1e5)).toBeLessThan(1e-9);
+    const html = await buildReportHtml(data);
+    expect(html).toContain(`${MAX_CURVATURE_LINES} of the 60 pairs drawn, evenly chosen`);
+    expect(html).toContain(`Showing ${MAX_TABLE_ROWS} of ${60 * 300} rows; every row is in fields/`);
+  });
 });
