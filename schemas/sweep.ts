@@ -277,31 +277,9 @@ type JsonSchemaNode = {
   anyOf?: JsonSchemaNode[];
 };
 
-let leafPathsCache: string[] | undefined;
-
 /** Every scalar the case schema knows, as a vary path with array indices written `[0]`, in schema order. */
 export function caseLeafPaths(): string[] {
-  if (leafPathsCache) return leafPathsCache;
-  const out: string[] = [];
-  const walk = (node: JsonSchemaNode, prefix: string): void => {
-    const branches = node.oneOf ?? node.anyOf;
-    if (branches) {
-      for (const b of branches) walk(b, prefix);
-      return;
-    }
-    if (node.properties) {
-      for (const [k, child] of Object.entries(node.properties)) walk(child, prefix === '' ? k : `${prefix}.${k}`);
-      return;
-    }
-    if (node.items) {
-      walk(node.items, `${prefix}[0]`);
-      return;
-    }
-    if (!out.includes(prefix)) out.push(prefix);
-  };
-  walk(caseJsonSchema() as JsonSchemaNode, '');
-  leafPathsCache = out;
-  return out;
+  return [...caseLeafNodes().keys()];
 }
 
 /** A path with each index replaced by 0, to compare with `caseLeafPaths()`. */
