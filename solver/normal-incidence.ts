@@ -3,6 +3,8 @@
 // against the exact Fresnel coefficient and to measure the absorbing layer's reflection.
 import type { Case } from '../schemas/case.js';
 import { C0 } from './constants.js';
+import { unwrapNearRad } from './phase.js';
+import { abs, arg, div, fromPolar, mul, sub, type C } from './references/complex.js';
 import { buildCpmlState } from './cpml.js';
 import { applySurfaceImpedance, updateE, updateECpml, updateH, updateHCpml, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
 import { buildMaterials, magneticCoefficients, planGrid } from './grid.js';
@@ -27,31 +29,22 @@ export function yee1dWavenumber(omega: number, dtS: number, dzM: number): number
   return (2 / dzM) * Math.asin((dzM / (C0 * dtS)) * Math.sin((omega * dtS) / 2));
 }
 
-/** Split phasors at heights z1, z2 into A·e^{+jk̃z} (downward) and B·e^{−jk̃z} (upward); returns B/A and |A|, |B|. */
-function decompose(e1: { re: number; im: number }, e2: { re: number; im: number }, k: number, z1: number, z2: number) {
+/** Split phasors at heights z1, z2 into A·e^{+jk̃z} (downward) and B·e^{−jk̃z} (upward), by Cramer's rule. */
+function decompose(e1: C, e2: C, k: number, z1: number, z2: number): { down: C; up: C } {
   // [e^{jkz1} e^{-jkz1}; e^{jkz2} e^{-jkz2}] [A; B] = [e1; e2]
-  const p = (th: number) => ({ re: Math.cos(th), im: Math.sin(th) });
-  const mul = (a: { re: number; im: number }, b: { re: number; im: number }) => ({ re: a.re * b.re - a.im * b.im, im: a.re * b.im + a.im * b.re });
-  const sub = (a: { re: number; im: number }, b: { re: number; im: number }) => ({ re: a.re - b.re, im: a.im - b.im });
-  const div = (a: { re: number; im: number }, b: { re: number; im: number }) => {
-    const d = b.re * b.re + b.im * b.im;
-    return { re: (a.re * b.re + a.im * b.im) / d, im: (a.im * b.re - a.re * b.im) / d };
-  };
-  const a11 = p(k * z1);
-  const a12 = p(-k * z1);
-  const a21 = p(k * z2);
-  const a22 = p(-k * z2);
+  const a11 = fromPolar(1, k * z1);
+  const a12 = fromPolar(1, -k * z1);
+  const a21 = fromPolar(1, k * z2);
+  const a22 = fromPolar(1, -k * z2);
   const det = sub(mul(a11, a22), mul(a12, a21));
-  const A = div(sub(mul(e1, a22), mul(a12, e2)), det);
-  const B = div(sub(mul(a11, e2), mul(a21, e1)), det);
-  return { down: A, up: B };
+  return { down: div(sub(mul(e1, a22), mul(a12, e2)), det), up: div(sub(mul(a11, e2), mul(a21, e1)), det) };
 }
 
 /** Wavenumber of an upward wave from its phasors at two heights Δz apart: the phase falls by k̃·Δz (e^{jωt}). */
-function measuredWavenumber(lower: { re: number; im: number }, upper: { re: number; im: number }, dzM: number): number {
-  let dphi = Math.atan2(lower.im, lower.re) - Math.atan2(upper.im, upper.re);
-  while (dphi < 0) dphi += 2 * Math.PI;
-  return dphi / dzM;
+function measuredWavenumber(lower: C, upper: C, dzM: number): number {
+  // the fall of phase from the lower to the upper row, taken in [0, 2π): a wave going up by less than a wavelength
+  const fallRad = unwrapNearRad(arg(lower) - arg(upper), Math.PI);
+  return fallRad / dzM;
 }
 
 /** Run the column of a planar case with an open top; the case's domain height sets the air column. */
@@ -119,19 +112,14 @@ export function runNormalIncidence(c: Case): NormalIncidenceResult {
     if (n >= settle) dft.accumulate(n, { ex: f.ex, ez: f.ez, hy: f.hy });
   }
   const ph = dft.take();
-  const e = (t: number) => ({ re: ph.re[t], im: ph.im[t] });
+  const e = (t: number): C => ({ re: ph.re[t], im: ph.im[t] });
   const k = yee1dWavenumber(omega, g.dtS, g.dxM);
   const z = (row: number) => g.zNodeM[row];
   const below = decompose(e(0), e(1), k, z(kA), z(kB));
   const above = decompose(e(2), e(3), k, z(kC), z(kD));
-  const d = below.down.re * below.down.re + below.down.im * below.down.im;
-  const gamma = {
-    re: (below.up.re * below.down.re + below.up.im * below.down.im) / d,
-    im: (below.up.im * below.down.re - below.up.re * below.down.im) / d,
-  };
   return {
-    groundReflection: gamma,
-    topReflectionMagnitude: Math.hypot(above.down.re, above.down.im) / Math.hypot(above.up.re, above.up.im),
+    groundReflection: div(below.up, below.down),
+    topReflectionMagnitude: abs(above.down) / abs(above.up),
     measuredPhaseVelocityRatio: omega / (C0 * measuredWavenumber(e(2), e(3), z(kD) - z(kC))),
     dzM: g.dxM,
     dtS: g.dtS,

@@ -1,5 +1,6 @@
-// Complex arithmetic for the analytic references (Faddeeva, Norton, Fresnel, guide modes, Hankel functions).
-// Plain immutable {re, im} records: clear rather than fast, since none of this runs inside a field-update loop.
+// Complex arithmetic for the analytic references (Faddeeva, Norton, Fresnel, guide modes, Hankel functions) and the
+// post-processing of the normal-incidence column. Plain immutable {re, im} records: clear rather than fast, since none
+// of this runs inside a field-update loop.
 // Algorithms that avoid needless overflow or cancellation are named beside each function.
 
 /** A complex number re + j·im (engineering j; the same object is read as re + i·im in the maths modules). */
