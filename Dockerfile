@@ -22,6 +22,10 @@ COPY --from=build /app/dist dist
 COPY package.json ./
 COPY bin bin
 COPY examples examples
-# Runs as root so that bind-mounted output folders (./out) are writable without matching user ids.
+# Runs as the image's unprivileged `node` user (uid 1000, gid 1000), never as root. A bind-mounted output folder
+# must be writable by the user the container runs as: docker-compose.yml runs the coordinator as
+# ${LOAMWAVE_UID:-1000}:${LOAMWAVE_GID:-1000}, so `LOAMWAVE_UID=$(id -u) LOAMWAVE_GID=$(id -g)` makes ./out yours.
+RUN mkdir -p /app/out && chown node:node /app/out
+USER node
 ENTRYPOINT ["node", "bin/loamwave.js"]
 CMD ["--help"]

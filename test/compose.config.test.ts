@@ -16,6 +16,7 @@ interface Service {
   environment?: Record<string, string>;
   volumes?: string[];
   depends_on?: Record<string, { condition: string }>;
+  user?: string;
 }
 
 const compose = parse(readFileSync(join(PROJECT_ROOT, 'docker-compose.yml'), 'utf8')) as { services: Record<string, Service> };
@@ -80,6 +81,25 @@ describe('docker-compose.yml', () => {
     expect(w.ports).toBeUndefined();
     expect(w.volumes).toBeUndefined();
     expect(w.depends_on?.redis.condition).toBe('service_healthy');
+  });
+});
+
+describe('running as a non-root user', () => {
+  it('when the image runs then its last USER is an unprivileged one, and the coordinator writing ./out runs as a settable uid', () => {
+    // Common practice (container hardening): a service that needs no privilege runs without root.
+    const users = [...dockerfile.matchAll(/^USER (\S+)$/gm)].map((m) => m[1]);
+    expect(users.length).toBeGreaterThan(0);
+    expect(['root', '0', '0:0']).not.toContain(users[users.length - 1]);
+    const user = compose.services.coordinator.user;
+    expect(user).toBeDefined();
+    const [uid, gid] = interpolate(user!).split(':');
+    expect(Number(uid)).toBeGreaterThan(0);
+    expect(Number(gid)).toBeGreaterThan(0);
+    expect(user).toMatch(/LOAMWAVE_UID/);
+  });
+
+  it('when the compose project runs then Redis publishes no port beyond its own network', () => {
+    expect((compose.services.redis as Service & { ports?: unknown }).ports).toBeUndefined();
   });
 });
 
