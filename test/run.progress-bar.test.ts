@@ -74,6 +74,26 @@ describe('ProgressBar', () => {
     expect(out.text).not.toMatch(/\u001b|\r/);
   });
 
+  it('when one long job runs in a log then a line appears each heartbeat while its solved share moves, and none while it stands', () => {
+    let now = 0;
+    const out = new Capture(false);
+    const bar = new ProgressBar({ stream: out, nowMs: () => now, plainIntervalMs: 5_000, plainHeartbeatMs: 60_000 });
+    bar.update(state(0, 0)); // the first line
+    now = 30_000;
+    bar.update(state(0, 3)); // moved, heartbeat not due
+    now = 61_000;
+    bar.update(state(0, 4)); // moved and due: 4 %
+    now = 200_000;
+    bar.update(state(0, 4)); // due, but nothing moved
+    now = 260_000;
+    bar.update(state(0, 9)); // moved and due: 9 %
+    const lines = out.text.trim().split('\n');
+    expect(lines).toHaveLength(3);
+    expect(lines[1]).toContain(' 4%');
+    expect(lines[2]).toContain(' 9%');
+    expect(lines[2]).toContain('0/10 done');
+  });
+
   it('when stderr is a terminal then one line is redrawn in place with an ETA, and NO_COLOR turns colour off', () => {
     let now = 0;
     const tty = new Capture(true);

@@ -21,6 +21,11 @@ export interface ProgressBarOptions {
   readonly color?: boolean;
   /** Least time between two plain lines, ms. @defaultValue 5000 */
   readonly plainIntervalMs?: number;
+  /**
+   * A plain line also when no job finished for this long but the solved share moved by a whole percent, so that a
+   * log of hours-long jobs shows they advance. @defaultValue 60000
+   */
+  readonly plainHeartbeatMs?: number;
   /** Clock, ms (tests give their own). @defaultValue Date.now */
   readonly nowMs?: () => number;
 }
@@ -46,6 +51,17 @@ export function etaSeconds(state: ProgressState, workAtStart: number, startMs: n
   return (state.workTotal - state.workDone) / (gained / elapsedS);
 }
 
+/** The solved share of the sweep: by work when it is known, else by finished jobs. */
+function solvedFraction(state: ProgressState): number {
+  const finishedJobs = state.done + state.failed;
+  return state.workTotal > 0 ? Math.min(1, state.workDone / state.workTotal) : finishedJobs / Math.max(1, state.total);
+}
+
+/** The solved share in whole percent, as shown. */
+function percentText(state: ProgressState): string {
+  return (solvedFraction(state) * 100).toFixed(0);
+}
+
 const ESC = '\u001b[';
 const paint = (on: boolean, code: string, text: string) => (on ? `${ESC}${code}m${text}${ESC}0m` : text);
 
@@ -58,6 +74,7 @@ export class ProgressBar {
   private doneAtStart: number | undefined;
   private lastPlainMs = -Infinity;
   private lastPlainText = '';
+  private lastPlainPercent = '';
   private lastDrawMs = -Infinity;
   private finished = false;
 
@@ -74,7 +91,7 @@ export class ProgressBar {
     this.workAtStart ??= state.workDone;
     this.doneAtStart ??= state.done + state.failed;
     const finishedJobs = state.done + state.failed;
-    const fraction = state.workTotal > 0 ? Math.min(1, state.workDone / state.workTotal) : finishedJobs / Math.max(1, state.total);
+    const fraction = solvedFraction(state);
     const width = 20;
     const filled = Math.round(fraction * width);
     const bar = '[' + '#'.repeat(filled) + '.'.repeat(width - filled) + ']';
@@ -82,7 +99,7 @@ export class ProgressBar {
     const rate = elapsedMin > 0 ? (finishedJobs - this.doneAtStart) / elapsedMin : 0;
     const eta = finishedJobs === state.total ? 0 : etaSeconds(state, this.workAtStart, this.startMs, now);
     const parts = [
-      `${bar} ${(fraction * 100).toFixed(0).padStart(3)}%`,
+      `${bar} ${percentText(state).padStart(3)}%`,
       paint(this.color, '32', `${state.done}/${state.total} done`),
       state.failed > 0 ? paint(this.color, '31', `${state.failed} failed`) : undefined,
       `${state.running} running`,
@@ -102,12 +119,16 @@ export class ProgressBar {
       this.opts.stream.write(`\r${this.line(state)}${ESC}K`);
       return;
     }
-    const text = this.line(state);
     const counts = `${state.done}/${state.failed}`;
-    if (counts === this.lastPlainText || now - this.lastPlainMs < (this.opts.plainIntervalMs ?? 5000)) return;
+    const percent = percentText(state);
+    const sinceMs = now - this.lastPlainMs;
+    const countsDue = counts !== this.lastPlainText && sinceMs >= (this.opts.plainIntervalMs ?? 5000);
+    const heartbeatDue = percent !== this.lastPlainPercent && sinceMs >= (this.opts.plainHeartbeatMs ?? 60_000);
+    if (!countsDue && !heartbeatDue) return;
     this.lastPlainText = counts;
+    this.lastPlainPercent = percent;
     this.lastPlainMs = now;
-    this.opts.stream.write(text + '\n');
+    this.opts.stream.write(this.line(state) + '\n');
   }
 
   /** Draw the final state once and end the line. Safe to call twice. */
