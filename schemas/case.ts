@@ -95,6 +95,10 @@ export const MEAN_EARTH_RADIUS_M = 6_371_000;
 export const EARTH_RADIUS_MIN_M = 1e5;
 export const EARTH_RADIUS_MAX_M = 1e12;
 
+/** The earth models: a flat earth with a line source (`planar`) or a vertical dipole (`axisymmetric`), or a sphere. */
+export const GeometrySchema = z.enum(['axisymmetric', 'planar', 'spherical']);
+export type Geometry = z.infer<typeof GeometrySchema>;
+
 /**
  * The sphere of the `spherical` geometry. Optional and without a default: an absent block stays absent in the
  * parsed case (job ids hash the parsed case, so a default here would change every existing job's id); the solver
@@ -117,7 +121,7 @@ export const CaseSchema = z
      * current) or `spherical` (a sphere of `earth.radius_m`, ρ–θ, vertical dipole on the polar axis; ranges are
      * great-circle distances along the surface and heights are above it).
      */
-    geometry: z.enum(['axisymmetric', 'planar', 'spherical']).default('axisymmetric'),
+    geometry: GeometrySchema.default('axisymmetric'),
     /** The sphere for `spherical` (ignored by the flat geometries); absent: the mean earth radius. */
     earth: EarthSchema.optional(),
     frequency_hz: z.number().min(100).max(3e6),

@@ -1,5 +1,6 @@
 // The result of one case: rms phasors (SI, e^{jωt}) at each receiver, the grid actually used, and warnings.
 import { z } from 'zod';
+import { GeometrySchema } from './case.js';
 
 export const ComplexSchema = z.strictObject({ re: z.number(), im: z.number() });
 export type Complex = z.infer<typeof ComplexSchema>;
@@ -40,7 +41,7 @@ export type GridReport = z.infer<typeof GridReportSchema>;
 
 export const SolveResultSchema = z.strictObject({
   solver_version: z.string(),
-  geometry: z.enum(['axisymmetric', 'planar']),
+  geometry: GeometrySchema,
   frequency_hz: z.number(),
   receivers: z.array(ReceiverResultSchema),
   grid: GridReportSchema,

@@ -2,6 +2,7 @@
 // ceiling and an ionosphere, and the size and sign of the curvature effect. Small cases of a second or so each.
 import { describe, expect, it } from 'vitest';
 import { MEAN_EARTH_RADIUS_M, parseCase, type CaseInput } from '../schemas/case.js';
+import { JobResultSchema } from '../schemas/result.js';
 import { C0 } from '../solver/constants.js';
 import { planGrid } from '../solver/grid.js';
 import { estimateCost, solve } from '../solver/index.js';
@@ -99,6 +100,15 @@ const mixedUnderIonosphere: CaseInput = {
   grid: { cells_per_wavelength: 10, courant: 0.94 },
   receivers: { ranges_m: [50000, 100000] },
 };
+
+describe('spherical geometry: the result contract', () => {
+  it('when a sphere case is solved then its result is one the collector accepts (the result schema), naming the geometry', () => {
+    const r = solve(parseCase({ ...short, geometry: 'spherical', receivers: { ranges_m: [30000] } }));
+    const job = JobResultSchema.safeParse({ ...r, job_id: 'a'.repeat(64), wall_time_s: 0.1 });
+    expect(job.success, job.success ? '' : JSON.stringify(job.error.issues)).toBe(true);
+    expect(r.geometry).toBe('spherical');
+  });
+});
 
 describe('spherical geometry: cost', () => {
   it('when a sphere case is solved then estimateCost predicts its cells and memory, and the grid matches the flat one of the same case', () => {
