@@ -63,6 +63,13 @@ export interface GridPlan {
   memoryBytes: number;
 }
 
+/**
+ * Most cells (nodes (nx+1)·(nz+1)) one field array may have: the longest Float64Array of Node 20's V8 has 2^32
+ * elements (measured: `new Float64Array(2 ** 33)` is refused as an invalid length). Beyond it the case cannot run
+ * on any machine, whatever its memory.
+ */
+export const MAX_GRID_CELLS = 2 ** 32;
+
 const FIELD_ARRAYS = 3; // Ex, Ez, Hy (coefficients are per column profile: see buildMaterials)
 
 /** Cell size, time step and cell counts of a case (cheap: no arrays of cells). */
@@ -95,6 +102,13 @@ export function planGrid(c: Case): GridPlan {
     pmlTop = npml;
   }
   const nz = groundRows + airRows;
+  if (!((nx + 1) * (nz + 1) <= MAX_GRID_CELLS)) {
+    const ground = groundRows > 0 ? ` (${groundRows} of the rows in the resolved ground)` : '';
+    throw new UserError(
+      `grid: the case needs ${nx} × ${nz} cells${ground}, more than the ${MAX_GRID_CELLS} one field array can hold; coarsen grid.cell_size_m or grid.cells_per_wavelength, or shrink domain.range_m and domain.height_m`,
+      'loamwave.case.invalid',
+    );
+  }
   const dzM = new Float64Array(nz);
   for (let k = 0; k < nz; k++) dzM[k] = k < groundRows ? dzGroundM : dxM;
   const zNodeM = new Float64Array(nz + 1);

@@ -1,7 +1,6 @@
 // solve(case): run one case on its Yee grid to steady state and return rms phasors at the receivers.
 // Pure and deterministic: no I/O, no clock; the same case gives bit-identical numbers.
 import type { Case } from '../schemas/case.js';
-import { UserError } from '../schemas/errors.js';
 import type { ReceiverResult, SolveResult } from '../schemas/result.js';
 import { C0, MU0 } from './constants.js';
 import { buildCpmlState } from './cpml.js';
@@ -19,10 +18,12 @@ import { buildMaterials, magneticCoefficients, metricUnscale, planGrid, radialFa
 import { buildReceiverTaps, RunningDft, type Tap } from './receivers.js';
 import { sourceCurrent, targetMoment } from './source.js';
 import { buildImpedanceRow, groundImpedance } from './surface-impedance.js';
+import { checkSolvable } from './validity.js';
 import { SOLVER_VERSION } from './version.js';
 
 export { SolveCancelledError, SolverDivergedError } from './errors.js';
 export { SOLVER_VERSION, SOLVER_MAJOR } from './version.js';
+export { checkSolvable, type SolveLimits, type SolvableCase } from './validity.js';
 
 export interface SolveOptions {
   /** Called now and then with the fraction of the expected steps done (may exceed 1 if settling takes longer). */
@@ -41,8 +42,6 @@ export interface SolveOptions {
 
 /** Relative change of the receiver phasors between two consecutive DFT windows taken as settled. */
 const SETTLED_RELATIVE_CHANGE = 1e-4;
-/** Loss tangent below which the impedance model draws a warning (rule of thumb: common practice). */
-const LOSS_TANGENT_WARN = 10;
 
 interface Schedule {
   rampSteps: number;
@@ -73,31 +72,9 @@ export function estimateCost(c: Case): { cells_total: number; steps: number; mem
   return { cells_total: cells, steps, memory_bytes: g.memoryBytes, cell_updates: cells * steps };
 }
 
-function impedanceWarnings(c: Case): string[] {
-  const warnings: string[] = [];
-  if (c.ground.model !== 'impedance') return warnings;
-  (c.ground.segments ?? []).forEach((s, i) => {
-    const z = groundImpedance(c.frequency_hz, s.conductivity_s_per_m, s.relative_permittivity);
-    const where = `ground.segments[${i}]`;
-    if (z.lossTangent < 1) {
-      throw new UserError(
-        `${where}: loss tangent σ/(ωε0εr) = ${z.lossTangent.toPrecision(3)} is below 1, outside the surface-impedance model's validity; use "ground": {"model": "resolved"} for this ground`,
-        'loamwave.case.impedance_invalid',
-      );
-    }
-    if (z.lossTangent < LOSS_TANGENT_WARN) {
-      warnings.push(
-        `${where}: loss tangent ${z.lossTangent.toPrecision(3)} < ${LOSS_TANGENT_WARN}: the surface-impedance model is near its validity limit; cross-check with ground model "resolved"`,
-      );
-    }
-  });
-  return warnings;
-}
-
 /** Solve one validated case. Throws UserError for cases outside the models' validity. */
 export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
-  const warnings = impedanceWarnings(c);
-  const g = planGrid(c);
+  const { grid: g, warnings } = checkSolvable(c);
   const { nx, nz } = g;
   const S = nz + 1;
   const size = (nx + 1) * S;
