@@ -15,7 +15,7 @@ import {
   type YeeFields,
 } from './fdtd-kernel.js';
 import { buildMaterials, magneticCoefficients, metricUnscale, planGrid, radialFactors, sourceCellAreaM2, type GridPlan } from './grid.js';
-import { buildReceiverTaps, RunningDft, type Tap } from './receivers.js';
+import { buildReceiverTaps, ReceiverBank } from './receivers.js';
 import { sourceCurrent, targetMoment } from './source.js';
 import { buildImpedanceRow, groundImpedance } from './surface-impedance.js';
 import { checkSolvable } from './validity.js';
@@ -140,17 +140,6 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   const rampS = sch.rampSteps * g.dtS;
 
   const receivers = buildReceiverTaps(g, c.receivers.ranges_m, c.receivers.height_m, zrow !== undefined);
-  const allTaps: Tap[] = [];
-  const slices = receivers.map((r) => {
-    const s = { ez: [allTaps.length, r.ez.length], ex: [0, 0], hy: [0, 0] } as Record<'ez' | 'ex' | 'hy', [number, number]>;
-    allTaps.push(...r.ez);
-    s.ex = [allTaps.length, r.ex.length];
-    allTaps.push(...r.ex);
-    s.hy = [allTaps.length, r.hy.length];
-    allTaps.push(...r.hy);
-    return s;
-  });
-  const dft = new RunningDft(allTaps, g.stepsPerPeriod);
   const fieldsByName = { ex: f.ex, ez: f.ez, hy: f.hy };
 
   const expectedSteps = sch.settleSteps + 2 * sch.windowSteps;
@@ -160,9 +149,12 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   // source over one cell) count as zero for the settling test: deep in the ionosphere they are round-off.
   const kWave = omega / C0;
   const floors = c.receivers.ranges_m.map((d) => (1e-7 * MU0 * C0 * kWave * dzs) / (4 * Math.PI * Math.max(d, C0 / c.frequency_hz)));
+  // one running DFT per grid sample any receiver reads (receivers.ts): the receivers' phasors are combined from
+  // them once, after the last window, and the settling test reads the samples directly
+  const bank = new ReceiverBank(receivers, g.stepsPerPeriod, floors);
+  const dft = bank.dft;
   const progressEvery = Math.max(1, Math.floor(expectedSteps / 100));
-  let previous: { re: Float64Array; im: Float64Array } | undefined;
-  let current: { re: Float64Array; im: Float64Array } | undefined;
+  let windows = 0;
   let change = Infinity;
   let n = 0;
   let settled = false;
@@ -177,13 +169,12 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
     f.ez[ks] += sourceCoef * sourceCurrent((n + 0.5) * g.dtS, omega, rampS);
     if (n >= sch.settleSteps) dft.accumulate(n, fieldsByName);
     if (windowEnd) {
-      previous = current;
-      current = dft.take();
-      if (!current.re.every(Number.isFinite) || !current.im.every(Number.isFinite)) {
+      windows++;
+      if (!dft.take()) {
         throw new SolverDivergedError(`fields became non-finite by step ${n + 1}; lower grid.courant`);
       }
-      if (previous) {
-        change = relativeChange(previous, current, slices.map((s) => s.ez), floors);
+      if (windows >= 2) {
+        change = bank.settlingChange();
         if (change < SETTLED_RELATIVE_CHANGE && opts.fixedSteps === undefined) {
           settled = true;
           n++;
@@ -193,7 +184,7 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
     }
     n++;
     if (opts.onEnergy && n % (opts.energyEverySteps ?? 1000) === 0) opts.onEnergy(n, fieldEnergy(f));
-    if (opts.fixedSteps !== undefined ? n >= opts.fixedSteps && current !== undefined : n >= maxSteps && windowEnd) break;
+    if (opts.fixedSteps !== undefined ? n >= opts.fixedSteps && windows > 0 : n >= maxSteps && windowEnd) break;
     if (n % 256 === 0 && opts.shouldStop?.()) throw new SolveCancelledError();
     if (opts.onProgress && n % progressEvery === 0) opts.onProgress(n / expectedSteps);
   }
@@ -202,30 +193,17 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
       `not settled after ${n} steps (last window-to-window change ${change.toExponential(2)}); raise run.max_steps or check the boundaries`,
     );
   }
-  const ph = current!;
   const scale = targetMoment(c) / dzs; // fields were computed for a 1 A peak current over one cell of height dzs
-  const combine = (sl: [number, number]): { re: number; im: number } => {
-    let re = 0;
-    let im = 0;
-    for (let t = sl[0]; t < sl[0] + sl[1]; t++) {
-      const tap = allTaps[t];
-      const th = -kWave * tap.offsetM; // advance to the receiver's range: e^{−jk·offset}
-      const c0 = Math.cos(th);
-      const s0 = Math.sin(th);
-      re += tap.weight * (ph.re[t] * c0 - ph.im[t] * s0);
-      im += tap.weight * (ph.re[t] * s0 + ph.im[t] * c0);
-    }
-    return { re: re * scale, im: im * scale };
-  };
+  const combine = (r: number, field: 'ez' | 'ex' | 'hy'): { re: number; im: number } => bank.phasor(r, field, kWave, scale);
   const out: ReceiverResult[] = receivers.map((r, idx) => {
-    const ez = combine(slices[idx].ez);
+    const ez = combine(idx, 'ez');
     const mag = Math.hypot(ez.re, ez.im);
     return {
       range_m: r.rangeM,
       height_m: r.heightM,
       ez,
-      e_horizontal: combine(slices[idx].ex),
-      h: combine(slices[idx].hy),
+      e_horizontal: combine(idx, 'ex'),
+      h: combine(idx, 'hy'),
       ez_db_uv_per_m: 20 * Math.log10(mag / 1e-6),
       ez_phase_deg: (Math.atan2(ez.im, ez.re) * 180) / Math.PI,
     };
@@ -261,25 +239,4 @@ function fieldEnergy(f: YeeFields): number {
   const eta2 = (MU0 * C0) ** 2;
   for (let i = 0; i < f.ex.length; i++) e += f.ex[i] * f.ex[i] + f.ez[i] * f.ez[i] + eta2 * f.hy[i] * f.hy[i];
   return e;
-}
-
-function relativeChange(
-  a: { re: Float64Array; im: Float64Array },
-  b: { re: Float64Array; im: Float64Array },
-  slices: Array<[number, number]>,
-  floors: number[],
-): number {
-  // compare the (unweighted) tap phasors of Ez at each receiver; floor at 1e-6 of the strongest tap
-  let peak = 0;
-  for (const [s, len] of slices) for (let t = s; t < s + len; t++) peak = Math.max(peak, Math.hypot(b.re[t], b.im[t]));
-  let worst = 0;
-  for (let r = 0; r < slices.length; r++) {
-    const [s, len] = slices[r];
-    for (let t = s; t < s + len; t++) {
-      const d = Math.hypot(b.re[t] - a.re[t], b.im[t] - a.im[t]);
-      const m = Math.max(Math.hypot(b.re[t], b.im[t]), 1e-6 * peak, floors[r]);
-      worst = Math.max(worst, d / m);
-    }
-  }
-  return worst;
 }

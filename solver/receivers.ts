@@ -84,18 +84,63 @@ export function buildReceiverTaps(g: GridPlan, rangesM: readonly number[], heigh
   });
 }
 
-/** Running DFT of every tap over windows of `windowSteps`, phase table at half-step resolution. */
-export class RunningDft {
-  private readonly taps: Tap[];
+type Phasors = { re: Float64Array; im: Float64Array };
+
+/** The field arrays the samples are read from, by name. */
+export type FieldArrays = Record<FieldName, Float64Array>;
+
+/**
+ * Running DFT of distinct grid samples over windows of whole periods, phase table at half-step resolution.
+ * A sample is one (field array, cell index, half-step offset); taps that read the same sample share its running sum,
+ * so many receivers on one grid cost one sum per sample they touch, not one per tap. Samples are grouped by field
+ * and offset: every sample of a group has the same phase at a step, so a step is one multiply-add pair per sample,
+ * with the group's cos and sin read once. Per sample the sums are the same floating-point operations, in the same
+ * order, as a separate sum per tap: the phasors are bit-identical to one DFT per tap.
+ */
+export class SampleDft {
+  /** Sample of each tap, in the order the taps were given. */
+  readonly tapSample: Int32Array;
+  /** Cell index of each sample (samples ordered by group, then by index). */
+  readonly index: Int32Array;
+  /** Groups of samples [start, end) that share a field and a half-step offset. */
+  readonly groups: ReadonlyArray<{ field: FieldName; halfStepOffset: number; start: number; end: number }>;
   private readonly cosT: Float64Array;
   private readonly sinT: Float64Array;
   private readonly accRe: Float64Array;
   private readonly accIm: Float64Array;
   private readonly halfStepsPerPeriod: number;
   private count = 0;
+  /** Phasors of the last window taken and of the one before it (swapped, not reallocated, at each take). */
+  private last: Phasors;
+  private before: Phasors;
+  private windows = 0;
 
-  constructor(taps: Tap[], stepsPerPeriod: number) {
-    this.taps = taps;
+  constructor(taps: readonly Tap[], stepsPerPeriod: number) {
+    // distinct (field, offset) groups, then distinct indices within each, in memory order
+    const byGroup = new Map<string, { field: FieldName; halfStepOffset: number; indices: Set<number> }>();
+    for (const t of taps) {
+      const key = `${t.field}:${t.halfStepOffset}`;
+      let g = byGroup.get(key);
+      if (!g) byGroup.set(key, (g = { field: t.field, halfStepOffset: t.halfStepOffset, indices: new Set() }));
+      g.indices.add(t.index);
+    }
+    const groups: Array<{ field: FieldName; halfStepOffset: number; start: number; end: number }> = [];
+    const sampleOf = new Map<string, Map<number, number>>();
+    const indices: number[] = [];
+    for (const [key, g] of [...byGroup.entries()].sort((a, b) => (a[0] < b[0] ? -1 : 1))) {
+      const sorted = [...g.indices].sort((a, b) => a - b);
+      const ids = new Map<number, number>();
+      const start = indices.length;
+      for (const ix of sorted) {
+        ids.set(ix, indices.length);
+        indices.push(ix);
+      }
+      sampleOf.set(key, ids);
+      groups.push({ field: g.field, halfStepOffset: g.halfStepOffset, start, end: indices.length });
+    }
+    this.groups = groups;
+    this.index = Int32Array.from(indices);
+    this.tapSample = Int32Array.from(taps, (t) => sampleOf.get(`${t.field}:${t.halfStepOffset}`)!.get(t.index)!);
     this.halfStepsPerPeriod = 2 * stepsPerPeriod;
     this.cosT = new Float64Array(this.halfStepsPerPeriod);
     this.sinT = new Float64Array(this.halfStepsPerPeriod);
@@ -104,36 +149,171 @@ export class RunningDft {
       this.cosT[m] = Math.cos(th);
       this.sinT[m] = Math.sin(th);
     }
-    this.accRe = new Float64Array(taps.length);
-    this.accIm = new Float64Array(taps.length);
+    const u = indices.length;
+    this.accRe = new Float64Array(u);
+    this.accIm = new Float64Array(u);
+    this.last = { re: new Float64Array(u), im: new Float64Array(u) };
+    this.before = { re: new Float64Array(u), im: new Float64Array(u) };
+  }
+
+  get sampleCount(): number {
+    return this.index.length;
   }
 
   /** Accumulate the samples recorded at the end of step n: X = Σ f(t)·e^{−jωt}. */
-  accumulate(n: number, fields: Record<FieldName, Float64Array>): void {
+  accumulate(n: number, fields: FieldArrays): void {
     const P = this.halfStepsPerPeriod;
     const base = (2 * n) % P;
-    for (let t = 0; t < this.taps.length; t++) {
-      const tap = this.taps[t];
-      const v = fields[tap.field][tap.index];
-      const m = (base + tap.halfStepOffset) % P;
-      this.accRe[t] += v * this.cosT[m];
-      this.accIm[t] -= v * this.sinT[m];
+    for (const g of this.groups) {
+      const m = (base + g.halfStepOffset) % P;
+      this.accumulateGroup(fields[g.field], g.start, g.end, this.cosT[m], this.sinT[m]);
     }
     this.count++;
   }
 
-  /** Rms phasors of the taps over the window so far ((√2/N)·X), then reset. */
-  take(): { re: Float64Array; im: Float64Array } {
-    const s = Math.SQRT2 / this.count;
-    const re = new Float64Array(this.taps.length);
-    const im = new Float64Array(this.taps.length);
-    for (let t = 0; t < this.taps.length; t++) {
-      re[t] = this.accRe[t] * s;
-      im[t] = this.accIm[t] * s;
+  private accumulateGroup(field: Float64Array, start: number, end: number, c: number, s: number): void {
+    const { index, accRe, accIm } = this;
+    for (let u = start; u < end; u++) {
+      const v = field[index[u]];
+      accRe[u] += v * c;
+      accIm[u] -= v * s;
     }
-    this.accRe.fill(0);
-    this.accIm.fill(0);
+  }
+
+  /**
+   * Close the window: rms phasors of the samples over it ((√2/N)·X) become `current`, the previous window's
+   * `previous`, and the sums restart. Returns false if a phasor is not finite.
+   */
+  take(): boolean {
+    const s = Math.SQRT2 / this.count;
+    const out = this.before;
+    this.before = this.last;
+    this.last = out;
+    const { accRe, accIm } = this;
+    let finite = true;
+    for (let u = 0; u < accRe.length; u++) {
+      const re = accRe[u] * s;
+      const im = accIm[u] * s;
+      out.re[u] = re;
+      out.im[u] = im;
+      if (!Number.isFinite(re) || !Number.isFinite(im)) finite = false;
+    }
+    accRe.fill(0);
+    accIm.fill(0);
     this.count = 0;
-    return { re, im };
+    this.windows++;
+    return finite;
+  }
+
+  /** Sample phasors of the last window taken (valid until the next take). */
+  get current(): Readonly<Phasors> {
+    return this.last;
+  }
+
+  /** Sample phasors of the window before the last, once two windows were taken. */
+  get previous(): Readonly<Phasors> | undefined {
+    return this.windows >= 2 ? this.before : undefined;
+  }
+}
+
+/** Running DFT of every tap (one entry per tap, repeated samples shared underneath). */
+export class RunningDft {
+  private readonly dft: SampleDft;
+
+  constructor(taps: Tap[], stepsPerPeriod: number) {
+    this.dft = new SampleDft(taps, stepsPerPeriod);
+  }
+
+  accumulate(n: number, fields: FieldArrays): void {
+    this.dft.accumulate(n, fields);
+  }
+
+  /** Rms phasors of the taps over the window so far ((√2/N)·X), then reset. */
+  take(): Phasors {
+    this.dft.take();
+    const ph = this.dft.current;
+    const map = this.dft.tapSample;
+    return { re: Float64Array.from(map, (u) => ph.re[u]), im: Float64Array.from(map, (u) => ph.im[u]) };
+  }
+}
+
+/**
+ * All receivers of a solve on one SampleDft: their taps' samples summed once per step, and the receivers' phasors
+ * combined from the sample phasors (weights and range advance of each tap) only when asked for.
+ */
+export class ReceiverBank {
+  readonly dft: SampleDft;
+  private readonly taps: Tap[] = [];
+  /** Per receiver and field, the taps [start, end) in `taps`. */
+  private readonly slices: Array<Record<FieldName, [number, number]>> = [];
+  /** Per sample of the Ez group, the lowest settling floor of the receivers that read it (+∞ for other samples). */
+  private readonly ezFloor: Float64Array;
+
+  /** `floors[r]`: the field below which receiver r's Ez taps count as round-off in the settling test, V/m. */
+  constructor(receivers: readonly ReceiverTaps[], stepsPerPeriod: number, floors: readonly number[]) {
+    for (const r of receivers) {
+      const sl = {} as Record<FieldName, [number, number]>;
+      for (const field of ['ez', 'ex', 'hy'] as const) {
+        sl[field] = [this.taps.length, this.taps.length + r[field].length];
+        for (const t of r[field]) this.taps.push(t);
+      }
+      this.slices.push(sl);
+    }
+    this.dft = new SampleDft(this.taps, stepsPerPeriod);
+    this.ezFloor = new Float64Array(this.dft.sampleCount).fill(Infinity);
+    receivers.forEach((_, r) => {
+      const [a, b] = this.slices[r].ez;
+      for (let t = a; t < b; t++) {
+        const u = this.dft.tapSample[t];
+        this.ezFloor[u] = Math.min(this.ezFloor[u], floors[r]);
+      }
+    });
+  }
+
+  /**
+   * Largest relative change of the Ez tap phasors between the last two windows (Infinity before two): per tap
+   * |Δ|/max(|X|, 1e-6 of the strongest Ez tap, the receiver's floor). A sample read by several receivers is held
+   * to the lowest of their floors, which is the largest of their ratios: the same number as testing every tap.
+   */
+  settlingChange(): number {
+    const a = this.dft.previous;
+    if (!a) return Infinity;
+    const b = this.dft.current;
+    let peak = 0;
+    let worst = 0;
+    for (const g of this.dft.groups) {
+      if (g.field !== 'ez') continue;
+      for (let u = g.start; u < g.end; u++) peak = Math.max(peak, Math.hypot(b.re[u], b.im[u]));
+    }
+    for (const g of this.dft.groups) {
+      if (g.field !== 'ez') continue;
+      for (let u = g.start; u < g.end; u++) {
+        const d = Math.hypot(b.re[u] - a.re[u], b.im[u] - a.im[u]);
+        const m = Math.max(Math.hypot(b.re[u], b.im[u]), 1e-6 * peak, this.ezFloor[u]);
+        worst = Math.max(worst, d / m);
+      }
+    }
+    return worst;
+  }
+
+  /**
+   * Phasor of one field at receiver r from the last window: Σ w·X·e^{−jk·offset} over its taps, times `scale`
+   * (the taps' order, so the sum is the one a per-tap DFT gave).
+   */
+  phasor(r: number, field: FieldName, kWave: number, scale: number): { re: number; im: number } {
+    const ph = this.dft.current;
+    const [a, b] = this.slices[r][field];
+    let re = 0;
+    let im = 0;
+    for (let t = a; t < b; t++) {
+      const tap = this.taps[t];
+      const u = this.dft.tapSample[t];
+      const th = -kWave * tap.offsetM; // advance to the receiver's range: e^{−jk·offset}
+      const c0 = Math.cos(th);
+      const s0 = Math.sin(th);
+      re += tap.weight * (ph.re[u] * c0 - ph.im[u] * s0);
+      im += tap.weight * (ph.re[u] * s0 + ph.im[u] * c0);
+    }
+    return { re: re * scale, im: im * scale };
   }
 }
