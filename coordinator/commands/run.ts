@@ -44,8 +44,10 @@ export function registerRun(program: Command): void {
       });
       return;
     }
-    const { openSweepRun } = await import('../ledger/sweep-run.js');
-    const run = openSweepRun(sweepPath, opts.out);
+    const [{ openSweepRun }, { defaultMemoryCapBytes }] = await Promise.all([import('../ledger/sweep-run.js'), import('../../worker/run-case.js')]);
+    // the cap the local pool holds each case to, checked on every job before the ledger is touched
+    const maxMemoryBytes = opts.maxMemoryMib === undefined ? defaultMemoryCapBytes(opts.workers) : mibToBytes(opts.maxMemoryMib);
+    const run = openSweepRun(sweepPath, opts.out, { maxMemoryBytes });
     try {
       await finish(run, await runEmbedded(run, opts), opts, started);
     } finally {

@@ -3,7 +3,7 @@
 // each job's cost (for longest-first order, queue priorities and a cost-weighted ETA).
 import { basename, join, resolve } from 'node:path';
 import type { Sweep } from '../../schemas/sweep.js';
-import { estimateCost } from '../../solver/index.js';
+import { estimateCost, type SolveLimits } from '../../solver/index.js';
 import { Ledger, type LedgerJob } from './ledger.js';
 import { loadSweep } from '../sweep/file.js';
 import { expandSweep, type ExpandedJob } from '../sweep/expand.js';
@@ -30,10 +30,13 @@ export function outDirFor(sweep: Sweep, outOption?: string): string {
 /** A validated, expanded sweep whose output folder has not been touched yet. */
 export type PreparedSweep = Omit<SweepRun, 'ledger' | 'added'>;
 
-/** Load and expand a sweep and estimate its jobs; writes nothing (a bad sweep or case throws UserError). */
-export function prepareSweep(sweepPath: string, outOption?: string): PreparedSweep {
+/**
+ * Load and expand a sweep and estimate its jobs; writes nothing (a bad sweep or case, or a job over the memory cap
+ * in `limits`, throws UserError).
+ */
+export function prepareSweep(sweepPath: string, outOption?: string, limits: SolveLimits = {}): PreparedSweep {
   const { sweep, text, path } = loadSweep(sweepPath);
-  const jobs = expandSweep(sweep, basename(path));
+  const jobs = expandSweep(sweep, basename(path), limits);
   const costById = new Map<string, number>();
   for (const j of jobs) costById.set(j.job_id, estimateCost(j.case).cell_updates);
   return { sweep, text, path, outDir: outDirFor(sweep, outOption), jobs, costById };
@@ -53,8 +56,8 @@ export function openLedgerFor(prepared: PreparedSweep): SweepRun {
 }
 
 /** Load, expand and register a sweep; nothing is written unless the sweep and all its cases are valid. */
-export function openSweepRun(sweepPath: string, outOption?: string): SweepRun {
-  return openLedgerFor(prepareSweep(sweepPath, outOption));
+export function openSweepRun(sweepPath: string, outOption?: string, limits: SolveLimits = {}): SweepRun {
+  return openLedgerFor(prepareSweep(sweepPath, outOption, limits));
 }
 
 /** Open the ledger of a sweep that has been run or submitted before, without changing it (for `status`). */

@@ -2,6 +2,8 @@
 // path outermost), Latin hypercube, or a Saltelli design. Every case is validated before anything is queued, and
 // cases that come out identical collapse into one job (same job id).
 import { parseCase, type Case } from '../../schemas/case.js';
+import { UserError } from '../../schemas/errors.js';
+import { checkSolvable, type SolveLimits } from '../../solver/index.js';
 import {
   generatorKind,
   parseVaryPath,
@@ -107,10 +109,13 @@ export function describeParams(params: Record<string, number | string>): string 
 }
 
 /**
- * Expand the sweep; `source` (the file name) starts every error. Throws UserError naming the job, its varied
- * values and the field, e.g. `sweep.yaml: job 12 (frequency_hz=…): receivers.ranges_m[0]: …`.
+ * Expand the sweep; `source` (the file name) starts every error. Every job passes the case schema and the
+ * solver's own pre-step checks (`checkSolvable`: ground-model validity, source and receivers inside the region,
+ * grid size, and the memory cap in `limits` when given), so a sweep the solver would refuse is refused here, before
+ * anything is queued or written. Throws UserError naming the job, its varied values, the field and the fix, e.g.
+ * `sweep.yaml: job 12 (frequency_hz=…): ground.segments[0]: loss tangent … is below 1, …`.
  */
-export function expandSweepDetailed(sweep: Sweep, source = 'sweep'): Expansion {
+export function expandSweepDetailed(sweep: Sweep, source = 'sweep', limits: SolveLimits = {}): Expansion {
   const paths = Object.keys(sweep.vary);
   const steps: PathStep[][] = paths.map((p) => {
     const s = parseVaryPath(p);
@@ -128,7 +133,9 @@ export function expandSweepDetailed(sweep: Sweep, source = 'sweep'): Expansion {
       params[p] = pt.values[j];
       input = withValueAt(input, steps[j], pt.values[j]);
     });
-    const c = withoutUnusedParts(parseCase(input, `${source}: job ${jobs.length} (${describeParams(params)})`));
+    const where = `${source}: job ${jobs.length} (${describeParams(params)})`;
+    const c = withoutUnusedParts(parseCase(input, where));
+    solvableOrThrow(c, limits, where);
     // A flat case has no radius: its runs.parquet row leaves the radius column null rather than repeat a value.
     if (c.earth === undefined) for (const p of paths) if (p.startsWith('earth.')) delete params[p];
     const jobId = jobIdFor(c);
@@ -144,6 +151,16 @@ export function expandSweepDetailed(sweep: Sweep, source = 'sweep'): Expansion {
   return { jobs, points: point, duplicates };
 }
 
+/** The solver's pre-step checks on one job; a refusal becomes `<where>: <field>: <why and the fix>`. */
+function solvableOrThrow(c: Case, limits: SolveLimits, where: string): void {
+  try {
+    checkSolvable(c, limits);
+  } catch (e) {
+    if (e instanceof UserError) throw new UserError(`${where}: ${e.message}`, e.code, e.exitCode);
+    throw e;
+  }
+}
+
 /**
  * A case without the parts its geometry ignores: a flat geometry (planar, axisymmetric) has no earth radius, so a
  * sweep that sets flat against sphere and varies the radius runs the flat case once (the other points are
@@ -156,6 +173,6 @@ function withoutUnusedParts(c: Case): Case {
 }
 
 /** The distinct jobs of a sweep, in expansion order (see `expandSweepDetailed`). */
-export function expandSweep(sweep: Sweep, source = 'sweep'): ExpandedJob[] {
-  return expandSweepDetailed(sweep, source).jobs;
+export function expandSweep(sweep: Sweep, source = 'sweep', limits: SolveLimits = {}): ExpandedJob[] {
+  return expandSweepDetailed(sweep, source, limits).jobs;
 }
