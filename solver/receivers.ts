@@ -61,13 +61,20 @@ function columnWeights(g: GridPlan, rangeM: number, half: boolean): Array<[numbe
 
 export function buildReceiverTaps(g: GridPlan, rangesM: readonly number[], heightM: number, impedanceRow: boolean): ReceiverTaps[] {
   const S = g.nz + 1;
+  // the rows depend on the height alone, which all receivers share
+  const rowsCentred = rowWeights(g, heightM, true);
+  const rowsNodes = rowWeights(g, heightM, false);
   return rangesM.map((rangeM) => {
     // unscale(k): the factor from the stored field of row k to the physical one (a/ρ for Ẽθ and H̃ on the sphere,
     // see grid.ts; 1 for E_ρ and on the flat grids, where w·1 is w exactly)
     const taps = (field: FieldName, half: boolean, centred: boolean, offset: (k: number) => number, unscale: (k: number) => number): Tap[] => {
       const out: Tap[] = [];
-      for (const [i, wi, xM] of columnWeights(g, rangeM, half)) {
-        for (const [k, wk] of rowWeights(g, heightM, centred)) {
+      const cols = columnWeights(g, rangeM, half);
+      const rows = centred ? rowsCentred : rowsNodes;
+      for (let a = 0; a < cols.length; a++) {
+        const [i, wi, xM] = cols[a];
+        for (let b = 0; b < rows.length; b++) {
+          const [k, wk] = rows[b];
           if (wi * wk !== 0) out.push({ field, index: i * S + k, weight: wi * wk * unscale(k), offsetM: rangeM - xM, halfStepOffset: offset(k) });
         }
       }
@@ -88,6 +95,27 @@ type Phasors = { re: Float64Array; im: Float64Array };
 
 /** The field arrays the samples are read from, by name. */
 export type FieldArrays = Record<FieldName, Float64Array>;
+
+const FIELDS: readonly FieldName[] = ['ex', 'ez', 'hy'];
+/** Keys of samples: group · INDEX_SPAN + cell index. */
+const INDEX_SPAN = 2 ** 32;
+
+/** Group number of a field and half-step offset (0, 1 or 2): 0…8. */
+function sampleGroup(field: FieldName, halfStepOffset: number): number {
+  return FIELDS.indexOf(field) * 3 + halfStepOffset;
+}
+
+/** Position of `key` in the sorted distinct `keys` (it is there). */
+function findKey(keys: Float64Array, key: number): number {
+  let lo = 0;
+  let hi = keys.length - 1;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (keys[mid] < key) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
 
 /**
  * Running DFT of distinct grid samples over windows of whole periods, phase table at half-step resolution.
@@ -116,31 +144,27 @@ export class SampleDft {
   private windows = 0;
 
   constructor(taps: readonly Tap[], stepsPerPeriod: number) {
-    // distinct (field, offset) groups, then distinct indices within each, in memory order
-    const byGroup = new Map<string, { field: FieldName; halfStepOffset: number; indices: Set<number> }>();
-    for (const t of taps) {
-      const key = `${t.field}:${t.halfStepOffset}`;
-      let g = byGroup.get(key);
-      if (!g) byGroup.set(key, (g = { field: t.field, halfStepOffset: t.halfStepOffset, indices: new Set() }));
-      g.indices.add(t.index);
-    }
+    // a sample's key: group (field, offset) · 2^32 + cell index (indices stay below MAX_GRID_CELLS = 2^32, and
+    // keys below 9·2^32 are exact doubles); the sorted distinct keys are the samples, grouped and in memory order
+    const keys = new Float64Array(taps.length);
+    for (let t = 0; t < taps.length; t++) keys[t] = sampleGroup(taps[t].field, taps[t].halfStepOffset) * INDEX_SPAN + taps[t].index;
+    const sorted = keys.slice().sort();
+    let u = 0;
+    for (let t = 0; t < sorted.length; t++) if (t === 0 || sorted[t] !== sorted[t - 1]) sorted[u++] = sorted[t];
+    const distinct = sorted.subarray(0, u);
     const groups: Array<{ field: FieldName; halfStepOffset: number; start: number; end: number }> = [];
-    const sampleOf = new Map<string, Map<number, number>>();
-    const indices: number[] = [];
-    for (const [key, g] of [...byGroup.entries()].sort((a, b) => (a[0] < b[0] ? -1 : 1))) {
-      const sorted = [...g.indices].sort((a, b) => a - b);
-      const ids = new Map<number, number>();
-      const start = indices.length;
-      for (const ix of sorted) {
-        ids.set(ix, indices.length);
-        indices.push(ix);
-      }
-      sampleOf.set(key, ids);
-      groups.push({ field: g.field, halfStepOffset: g.halfStepOffset, start, end: indices.length });
+    const indices = new Int32Array(u);
+    for (let v = 0; v < u; v++) {
+      const gid = Math.floor(distinct[v] / INDEX_SPAN);
+      indices[v] = distinct[v] - gid * INDEX_SPAN;
+      const last = groups[groups.length - 1];
+      if (last && sampleGroup(last.field, last.halfStepOffset) === gid) last.end = v + 1;
+      else groups.push({ field: FIELDS[Math.floor(gid / 3)], halfStepOffset: gid % 3, start: v, end: v + 1 });
     }
     this.groups = groups;
-    this.index = Int32Array.from(indices);
-    this.tapSample = Int32Array.from(taps, (t) => sampleOf.get(`${t.field}:${t.halfStepOffset}`)!.get(t.index)!);
+    this.index = indices;
+    this.tapSample = new Int32Array(taps.length);
+    for (let t = 0; t < taps.length; t++) this.tapSample[t] = findKey(distinct, keys[t]);
     this.halfStepsPerPeriod = 2 * stepsPerPeriod;
     this.cosT = new Float64Array(this.halfStepsPerPeriod);
     this.sinT = new Float64Array(this.halfStepsPerPeriod);
@@ -149,7 +173,6 @@ export class SampleDft {
       this.cosT[m] = Math.cos(th);
       this.sinT[m] = Math.sin(th);
     }
-    const u = indices.length;
     this.accRe = new Float64Array(u);
     this.accIm = new Float64Array(u);
     this.last = { re: new Float64Array(u), im: new Float64Array(u) };
@@ -243,31 +266,43 @@ export class RunningDft {
  */
 export class ReceiverBank {
   readonly dft: SampleDft;
-  private readonly taps: Tap[] = [];
-  /** Per receiver and field, the taps [start, end) in `taps`. */
-  private readonly slices: Array<Record<FieldName, [number, number]>> = [];
+  /** Per tap, in receiver order (Ez, Ex, Hy taps of receiver 0, then of receiver 1, …): its weight and range offset. */
+  private readonly weight: Float64Array;
+  private readonly offsetM: Float64Array;
+  /** Per receiver, where its Ez, Ex and Hy taps start and end: starts[4r + 0…3]. */
+  private readonly starts: Int32Array;
   /** Per sample of the Ez group, the lowest settling floor of the receivers that read it (+∞ for other samples). */
   private readonly ezFloor: Float64Array;
 
   /** `floors[r]`: the field below which receiver r's Ez taps count as round-off in the settling test, V/m. */
   constructor(receivers: readonly ReceiverTaps[], stepsPerPeriod: number, floors: readonly number[]) {
-    for (const r of receivers) {
-      const sl = {} as Record<FieldName, [number, number]>;
-      for (const field of ['ez', 'ex', 'hy'] as const) {
-        sl[field] = [this.taps.length, this.taps.length + r[field].length];
-        for (const t of r[field]) this.taps.push(t);
+    this.starts = new Int32Array(4 * receivers.length);
+    let count = 0;
+    for (let r = 0; r < receivers.length; r++) count += receivers[r].ez.length + receivers[r].ex.length + receivers[r].hy.length;
+    const taps = new Array<Tap>(count);
+    this.weight = new Float64Array(count);
+    this.offsetM = new Float64Array(count);
+    let t = 0;
+    for (let r = 0; r < receivers.length; r++) {
+      for (let part = 0; part < 3; part++) {
+        this.starts[4 * r + part] = t;
+        const list = part === 0 ? receivers[r].ez : part === 1 ? receivers[r].ex : receivers[r].hy;
+        for (let j = 0; j < list.length; j++, t++) {
+          taps[t] = list[j];
+          this.weight[t] = list[j].weight;
+          this.offsetM[t] = list[j].offsetM;
+        }
       }
-      this.slices.push(sl);
+      this.starts[4 * r + 3] = t;
     }
-    this.dft = new SampleDft(this.taps, stepsPerPeriod);
+    this.dft = new SampleDft(taps, stepsPerPeriod);
     this.ezFloor = new Float64Array(this.dft.sampleCount).fill(Infinity);
-    receivers.forEach((_, r) => {
-      const [a, b] = this.slices[r].ez;
-      for (let t = a; t < b; t++) {
+    for (let r = 0; r < receivers.length; r++) {
+      for (let t = this.starts[4 * r]; t < this.starts[4 * r + 1]; t++) {
         const u = this.dft.tapSample[t];
-        this.ezFloor[u] = Math.min(this.ezFloor[u], floors[r]);
+        if (floors[r] < this.ezFloor[u]) this.ezFloor[u] = floors[r];
       }
-    });
+    }
   }
 
   /**
@@ -302,17 +337,18 @@ export class ReceiverBank {
    */
   phasor(r: number, field: FieldName, kWave: number, scale: number): { re: number; im: number } {
     const ph = this.dft.current;
-    const [a, b] = this.slices[r][field];
+    const part = field === 'ez' ? 0 : field === 'ex' ? 1 : 2;
+    const { weight, offsetM } = this;
+    const map = this.dft.tapSample;
     let re = 0;
     let im = 0;
-    for (let t = a; t < b; t++) {
-      const tap = this.taps[t];
-      const u = this.dft.tapSample[t];
-      const th = -kWave * tap.offsetM; // advance to the receiver's range: e^{−jk·offset}
+    for (let t = this.starts[4 * r + part]; t < this.starts[4 * r + part + 1]; t++) {
+      const u = map[t];
+      const th = -kWave * offsetM[t]; // advance to the receiver's range: e^{−jk·offset}
       const c0 = Math.cos(th);
       const s0 = Math.sin(th);
-      re += tap.weight * (ph.re[u] * c0 - ph.im[u] * s0);
-      im += tap.weight * (ph.re[u] * s0 + ph.im[u] * c0);
+      re += weight[t] * (ph.re[u] * c0 - ph.im[u] * s0);
+      im += weight[t] * (ph.re[u] * s0 + ph.im[u] * c0);
     }
     return { re: re * scale, im: im * scale };
   }
