@@ -11,7 +11,7 @@ const EXAMPLES = join(import.meta.dirname, '..', 'examples');
 const files = readdirSync(EXAMPLES).filter((f) => f.endsWith('.yaml')).sort();
 
 describe('example sweeps', () => {
-  it('when the examples folder is listed then it holds a quick sweep, a resolution study and a Saltelli design', () => {
+  it('when the examples folder is listed then it holds a quick sweep, a resolution study, a Saltelli design and flat against sphere', () => {
     const sweeps = files.map((f) => loadSweep(join(EXAMPLES, f)).sweep);
     const levels = (s: (typeof sweeps)[number]) => {
       const g = s.resolution_axis ? s.vary[s.resolution_axis] : undefined;
@@ -19,6 +19,9 @@ describe('example sweeps', () => {
     };
     expect(sweeps.some((s) => levels(s) >= 3)).toBe(true);
     expect(sweeps.some((s) => s.design.kind === 'saltelli')).toBe(true);
+    // flat against sphere in one sweep: its jobs hold both a flat geometry and the spherical one
+    const geometries = files.map((f) => new Set(expandSweep(loadSweep(join(EXAMPLES, f)).sweep, f).map((j) => j.case.geometry)));
+    expect(geometries.some((g) => g.has('spherical') && g.has('axisymmetric'))).toBe(true);
   });
 
   it.each(files)('when %s is expanded then every job is valid, small and on sensible ground', (file) => {

@@ -15,6 +15,7 @@ const PINNED: Record<string, string> = {
   'quorvessin-vlf-coast.yaml': 'f4bc57fc6b6d6734cc539d08e16ede1f209d445c364c42eb0c3526ff1ada39c4',
   'quorvessin-vlf-resolution.yaml': 'a8e5bfa4d7c0bc4d26807c706cd3fa594a157913f2244bc6eb9b284236b9f062',
   'yelquandor-timing-saltelli.yaml': '3c799504f55a4664b20822fde403f739264447f5fed95009f3551e40f6c6b57a',
+  'yelquandor-earth-model.yaml': 'bb2921faf5da97fab8555b55ba3c005e8492a58c63572bac61b71806f177cff9',
 };
 
 const minimal = {
