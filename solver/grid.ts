@@ -69,6 +69,12 @@ export interface GridPlan {
  * on any machine, whatever its memory.
  */
 export const MAX_GRID_CELLS = 2 ** 32;
+/**
+ * Most rows one grid may have (a Loamwave bound): 2^24 rows of the finest air cells (λ/400 at 3 MHz, 0.25 m) span
+ * 4 200 km, and a resolved ground of sea water under dry land needs about 10^4; it keeps the per-row arrays a plan
+ * builds for every job small (a thin grid of few columns could otherwise pass the cell bound with 10^8 rows).
+ */
+export const MAX_GRID_ROWS = 2 ** 24;
 
 const FIELD_ARRAYS = 3; // Ex, Ez, Hy (coefficients are per column profile: see buildMaterials)
 
@@ -102,10 +108,10 @@ export function planGrid(c: Case): GridPlan {
     pmlTop = npml;
   }
   const nz = groundRows + airRows;
-  if (!((nx + 1) * (nz + 1) <= MAX_GRID_CELLS)) {
+  if (!((nx + 1) * (nz + 1) <= MAX_GRID_CELLS && nz <= MAX_GRID_ROWS)) {
     const ground = groundRows > 0 ? ` (${groundRows} of the rows in the resolved ground)` : '';
     throw new UserError(
-      `grid: the case needs ${nx} × ${nz} cells${ground}, more than the ${MAX_GRID_CELLS} one field array can hold; coarsen grid.cell_size_m or grid.cells_per_wavelength, or shrink domain.range_m and domain.height_m`,
+      `grid: the case needs ${nx} × ${nz} cells${ground}, more than one grid can hold (${MAX_GRID_CELLS} cells, ${MAX_GRID_ROWS} rows); coarsen grid.cell_size_m or grid.cells_per_wavelength, or shrink domain.range_m and domain.height_m`,
       'loamwave.case.invalid',
     );
   }

@@ -160,7 +160,7 @@ describe('the pre-step checks, one by one', () => {
     ['the source above a pec ceiling', { source: { height_m: 9000 }, upper_boundary: { kind: 'pec', height_m: 8000 } }, /^source\.height_m: must be below upper_boundary\.height_m \(8000\)/],
     ['receivers above a pec ceiling', { receivers: { ranges_m: [10000], height_m: 9000 }, upper_boundary: { kind: 'pec', height_m: 8000 } }, /^receivers\.height_m: must be below the ceiling upper_boundary\.height_m \(8000\) \(got 9000\)/],
     // 1 mm cells over 40 km × 15 km: 4e7 × 1.5e7 cells, far beyond 2^32
-    ['a grid beyond the longest typed array', { grid: { cell_size_m: 0.001 } }, /^grid: the case needs \d+ × \d+ cells, more than the 4294967296 one field array can hold; coarsen/],
+    ['a grid beyond the longest typed array', { grid: { cell_size_m: 0.001 } }, /^grid: the case needs \d+ × \d+ cells, more than one grid can hold \(4294967296 cells, 16777216 rows\); coarsen/],
     // resolved ground: rows of a quarter of the sea's skin depth (1.6 m at 20 kHz, 5 S/m) down to 4 skin depths of
     // a 1e-14 S/m ground (3.6e7 m): 3.6e8 rows, over 2^32 cells with the 62 columns
     ['a resolved ground too deep to mesh', { ground: { model: 'resolved', segments: [{ start_m: 0, conductivity_s_per_m: 5, relative_permittivity: 70 }, { start_m: 20000, conductivity_s_per_m: 1e-14, relative_permittivity: 15 }] } }, /^grid: the case needs .* of the rows in the resolved ground\)/],
