@@ -25,11 +25,29 @@ export class ServiceUnreachableError extends UserError {
   }
 }
 
+/**
+ * A message from elsewhere (a parser's, the runtime's) as part of one line: line breaks and the white space around
+ * them become one space (V8's JSON.parse, for one, quotes the offending text, line breaks included).
+ */
+export function oneLine(text: string): string {
+  return text.replace(/\s*[\r\n]+\s*/g, ' ').trim();
+}
+
+/** Control characters and the Unicode line and paragraph separators. */
+const UNPRINTABLE = /[\u0000-\u001f\u007f-\u009f\u2028\u2029]/;
+
+/** A key as a message shows it: as written, or JSON-quoted when it holds a line break or a control character. */
+export function shownKey(key: string): string {
+  return UNPRINTABLE.test(key) ? JSON.stringify(key) : key;
+}
+
 /** `ground.segments[0].conductivity_s_per_m` from a zod path. */
 export function formatPath(path: ReadonlyArray<PropertyKey>): string {
   let out = '';
   for (const part of path) {
     if (typeof part === 'number') out += `[${part}]`;
+    // a key holding a line break or another control character is quoted, so the message stays one line
+    else if (UNPRINTABLE.test(String(part))) out += `[${JSON.stringify(String(part))}]`;
     else out += out === '' ? String(part) : `.${String(part)}`;
   }
   return out === '' ? '(top level)' : out;

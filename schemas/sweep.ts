@@ -3,6 +3,7 @@
 // against the case schema, so that a misspelt path is refused with the nearest valid one. No I/O here.
 import { z } from 'zod';
 import { caseJsonSchema } from './case.js';
+import { shownKey } from './errors.js';
 
 /** A folder-safe sweep name: it becomes `out/<name>/`. */
 const SWEEP_NAME = /^[a-z0-9][a-z0-9._-]{0,79}$/i;
@@ -141,7 +142,7 @@ export const SweepSchema = z
       ctx.addIssue({
         code: 'custom',
         path: ['resolution_axis'],
-        message: `must be one of the varied paths (${Object.keys(s.vary).join(', ') || 'none'})`,
+        message: `must be one of the varied paths (${Object.keys(s.vary).map(shownKey).join(', ') || 'none'})`,
       });
     }
   });

@@ -4,7 +4,7 @@
 import { totalmem } from 'node:os';
 import { performance } from 'node:perf_hooks';
 import { parseCase } from '../schemas/case.js';
-import { UserError } from '../schemas/errors.js';
+import { shownKey, UserError } from '../schemas/errors.js';
 import type { JobResult } from '../schemas/result.js';
 import { SolveCancelledError, SolverDivergedError } from '../solver/errors.js';
 import { estimateCost, solve } from '../solver/index.js';
@@ -35,7 +35,7 @@ export function runCase(caseInput: unknown, jobId: string, opts: RunCaseOptions 
   const started = performance.now();
   let c;
   try {
-    c = parseCase(caseInput, `job ${jobId}`);
+    c = parseCase(caseInput, `job ${shownKey(jobId)}`);
   } catch (err) {
     if (err instanceof UserError) throw new CaseFailure('invalid_case', err.message);
     throw err;

@@ -1,7 +1,7 @@
 // `loamwave solve CASE [--json]`: run one case and print the result (a table, or the result contract as JSON).
 import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
-import { UserError } from '../../schemas/errors.js';
+import { oneLine, UserError } from '../../schemas/errors.js';
 import type { JobResult } from '../../schemas/result.js';
 
 export function readJsonFile(path: string): unknown {
@@ -14,7 +14,7 @@ export function readJsonFile(path: string): unknown {
   try {
     return JSON.parse(text);
   } catch (e) {
-    throw new UserError(`${path}: not valid JSON (${(e as Error).message}); fix the syntax`);
+    throw new UserError(`${path}: not valid JSON (${oneLine((e as Error).message)}); fix the syntax`);
   }
 }
 

@@ -2,7 +2,7 @@
 // path outermost), Latin hypercube, or a Saltelli design. Every case is validated before anything is queued, and
 // cases that come out identical collapse into one job (same job id).
 import { parseCase, type Case } from '../../schemas/case.js';
-import { UserError } from '../../schemas/errors.js';
+import { shownKey, UserError } from '../../schemas/errors.js';
 import { checkSolvable, type SolveLimits } from '../../solver/index.js';
 import {
   generatorKind,
@@ -104,7 +104,7 @@ export function countDesignPoints(sweep: Sweep): number {
 
 /** `frequency_hz=20000, grid.cells_per_wavelength=8`: the job's varied values, for messages. */
 export function describeParams(params: Record<string, number | string>): string {
-  const parts = Object.entries(params).map(([k, v]) => `${k}=${v}`);
+  const parts = Object.entries(params).map(([k, v]) => `${shownKey(k)}=${typeof v === 'string' ? shownKey(v) : v}`);
   return parts.length > 0 ? parts.join(', ') : 'base case';
 }
 

@@ -3,9 +3,9 @@
 // and the fix; the full check of each expanded case happens in expand.ts.
 import { readFileSync } from 'node:fs';
 import { basename, extname } from 'node:path';
-import { parse as parseYaml, YAMLParseError } from 'yaml';
+import { parseDocument } from 'yaml';
 import { CaseSchema } from '../../schemas/case.js';
-import { formatIssue, UserError, userErrorFromZod } from '../../schemas/errors.js';
+import { formatIssue, oneLine, shownKey, UserError, userErrorFromZod } from '../../schemas/errors.js';
 import {
   defaultResolutionAxis,
   generatorKind,
@@ -43,20 +43,42 @@ export function parseSweepText(text: string, source: string, ext = '.yaml'): unk
     try {
       return JSON.parse(text) as unknown;
     } catch (e) {
-      throw new UserError(`${source}: not valid JSON (${(e as Error).message}); fix the syntax`, CODE);
+      throw new UserError(`${source}: not valid JSON (${oneLine((e as Error).message)}); fix the syntax`, CODE);
     }
   }
+  // parseDocument collects errors and warnings instead of throwing or printing them (an unknown tag would otherwise
+  // go to stderr as a multi-line process warning); building the value can still fail on aliases.
+  const doc = parseDocument(text, { prettyErrors: true, uniqueKeys: true });
+  const problem = doc.errors[0] ?? doc.warnings[0];
+  if (problem) {
+    const at = problem.linePos?.[0];
+    const where = at ? ` at line ${at.line}, column ${at.col}` : '';
+    const what = problem.message.split('\n')[0].replace(/ at line \d+, column \d+:?.*$/, '');
+    throw new UserError(`${source}: not valid YAML${where}: ${what}`, CODE);
+  }
+  let value: unknown;
   try {
-    return parseYaml(text, { prettyErrors: true, uniqueKeys: true }) as unknown;
+    // at most 100 aliases (the reader's default): more is how a small file expands into an enormous value
+    value = doc.toJS({ maxAliasCount: 100 });
   } catch (e) {
-    if (e instanceof YAMLParseError) {
-      const at = e.linePos?.[0];
-      const where = at ? ` at line ${at.line}, column ${at.col}` : '';
-      const what = e.message.split('\n')[0].replace(/ at line \d+, column \d+:?.*$/, '');
-      throw new UserError(`${source}: not valid YAML${where}: ${what}`, CODE);
-    }
+    // the YAML reader throws ReferenceError for an unresolved alias and for too many aliases
+    if (e instanceof ReferenceError) throw new UserError(`${source}: not valid YAML: ${e.message.split('\n')[0]}; write the value out instead of the alias`, CODE);
     throw e;
   }
+  if (holdsCycle(value)) {
+    throw new UserError(`${source}: not valid YAML: an anchor's value refers to itself through an alias; write the value out`, CODE);
+  }
+  return value;
+}
+
+/** Whether a value read from YAML contains itself (an anchor whose alias sits inside it). */
+function holdsCycle(value: unknown, onPath = new Set<object>()): boolean {
+  if (value === null || typeof value !== 'object') return false;
+  if (onPath.has(value)) return true;
+  onPath.add(value);
+  for (const v of Object.values(value)) if (holdsCycle(v, onPath)) return true;
+  onPath.delete(value);
+  return false;
 }
 
 /** Validate a sweep (already parsed from its text); `source` names the file in every error. */
@@ -70,7 +92,7 @@ export function parseSweep(input: unknown, source = 'sweep'): Sweep {
   }
   for (const [path, g] of Object.entries(sweep.vary)) {
     const problem = varyPathProblem(path, sweep.base);
-    if (problem) throw new UserError(`${source}: vary.${path}: ${problem}`, CODE);
+    if (problem) throw new UserError(`${source}: vary.${shownKey(path)}: ${problem}`, CODE);
     checkGeneratorValues(sweep, path, g, input, source);
   }
   const points = countDesignPoints(sweep);
