@@ -6,7 +6,8 @@ import { Redis } from 'ioredis';
 import { fileURLToPath } from 'node:url';
 import type { ProcessorThreadData } from './queue-processor.js';
 import { registryKey } from '../schemas/queue-names.js';
-import type { RedisSettings } from './redis-connection.js';
+import { CLOSE_LIMIT_MS, closeClient, closeWithin, type RedisSettings } from './redis-connection.js';
+import { resultKeyFromEnv } from './result-seal.js';
 
 export interface QueueWorkerOptions {
   /** ioredis options (see `redisOptions`). */
@@ -29,6 +30,13 @@ export interface QueueWorkerOptions {
   readonly discoverIntervalMs?: number;
   /** Largest memory one case may need, bytes. */
   readonly maxMemoryBytes: number;
+  /**
+   * Key shared with the coordinator: results are sealed with an HMAC-SHA256 (result-seal.ts).
+   * @defaultValue the LOAMWAVE_RESULT_KEY environment variable, when set
+   */
+  readonly resultKey?: string;
+  /** How long Redis may stay unreachable during a stop before the connections are dropped, ms. @defaultValue CLOSE_LIMIT_MS */
+  readonly closeLimitMs?: number;
   /** One line per event (job started, done, failed, queue found), for the log. */
   readonly log?: (line: string) => void;
 }
@@ -46,9 +54,16 @@ export class QueueWorker {
   private readonly registry: Redis;
   private timer: NodeJS.Timeout | undefined;
   private closing: Promise<void> | undefined;
+  private readonly retiring = new Set<Promise<void>>();
+  /** Cases each BullMQ worker is running now (from its active, completed and failed events). */
+  private readonly running = new Map<Worker, number>();
+  private urgent = false;
+  private urgentAtMs: number | undefined;
 
   constructor(private readonly opts: QueueWorkerOptions) {
     this.registry = new Redis({ ...opts.connection, lazyConnect: true });
+    // Its status tells a stop whether Redis is reachable; a lost connection is reported by the BullMQ workers.
+    this.registry.on('error', () => undefined);
   }
 
   /** Queue names being served now. */
@@ -70,16 +85,50 @@ export class QueueWorker {
    * Safe to call more than once; every clean-up runs even when one throws.
    */
   stop(urgent = false): Promise<void> {
-    if (urgent) Atomics.store(new Int32Array(this.stopBuffer), 0, 1);
+    if (urgent) {
+      Atomics.store(new Int32Array(this.stopBuffer), 0, 1);
+      this.urgent = true;
+    }
     if (this.closing) return this.closing;
     if (this.timer) clearInterval(this.timer);
     this.closing = (async () => {
-      const results = await Promise.allSettled([...this.workers.values()].map((w) => w.close()));
+      const results = await Promise.allSettled([...this.workers.entries()].map(([name, w]) => this.closeWorker(name, w)));
       for (const r of results) if (r.status === 'rejected') this.log(`closing a queue worker failed: ${String(r.reason)}`);
       this.workers.clear();
-      this.registry.disconnect();
+      // Workers of finished sweeps still closing; the registry connection is their sign of a reachable Redis.
+      await Promise.allSettled([...this.retiring]);
+      await closeClient(this.registry, this.closeLimitMs);
     })();
     return this.closing;
+  }
+
+  private get closeLimitMs(): number {
+    return this.opts.closeLimitMs ?? CLOSE_LIMIT_MS;
+  }
+
+  /**
+   * Close one BullMQ worker. A graceful close waits for its running cases however long they take, but not for a
+   * Redis that is gone nor for a close with no case left to finish: once either has lasted the close limit (or
+   * the limit after an urgent stop), its connections are dropped. A job it held then stalls and
+   * another worker takes it over, as after a crash.
+   */
+  private async closeWorker(name: string, w: Worker): Promise<void> {
+    const limit = this.closeLimitMs;
+    const closing = w.close();
+    closing.catch(() => undefined);
+    let unreachableSinceMs: number | undefined;
+    for (;;) {
+      const done = await Promise.race([closing.then(() => true), new Promise<false>((r) => setTimeout(() => r(false), 250))]);
+      if (done) return;
+      // Nothing left to wait for when Redis is gone, or when no case of this worker is running any more.
+      const waiting = this.registry.status === 'ready' && (this.running.get(w) ?? 0) > 0;
+      unreachableSinceMs = waiting ? undefined : (unreachableSinceMs ?? Date.now());
+      const urgentOver = this.urgent && (this.urgentAtMs ??= Date.now()) + limit < Date.now();
+      if (urgentOver || (unreachableSinceMs !== undefined && Date.now() - unreachableSinceMs > limit)) break;
+    }
+    this.log(`${name}: Redis did not answer while closing; disconnecting`);
+    await closeWithin(() => w.close(true), () => w.disconnect(), limit);
+    w.disconnect().catch(() => undefined);
   }
 
   private log(line: string): void {
@@ -94,13 +143,19 @@ export class QueueWorker {
       if (!wanted.includes(name)) {
         this.workers.delete(name);
         this.log(`${name}: sweep finished, no longer serving it`);
-        void w.close();
+        const retired = this.closeWorker(name, w).catch((e) => this.log(`closing a queue worker failed: ${String(e)}`));
+        this.retiring.add(retired);
+        void retired.finally(() => this.retiring.delete(retired));
       }
     }
   }
 
   private serve(name: string): void {
-    const data: ProcessorThreadData = { maxMemoryBytes: this.opts.maxMemoryBytes, stopFlag: this.stopBuffer };
+    const data: ProcessorThreadData = {
+      maxMemoryBytes: this.opts.maxMemoryBytes,
+      stopFlag: this.stopBuffer,
+      resultKey: this.opts.resultKey ?? resultKeyFromEnv(),
+    };
     const w = new Worker(name, processorFile(), {
       connection: this.opts.connection,
       prefix: this.opts.prefix,
@@ -113,6 +168,10 @@ export class QueueWorker {
       workerThreadsOptions: { workerData: data },
     });
     const short = (job: Job | undefined) => (job?.id ?? '?').slice(0, 12);
+    const count = (d: number) => this.running.set(w, Math.max(0, (this.running.get(w) ?? 0) + d));
+    w.on('active', () => count(1));
+    w.on('completed', () => count(-1));
+    w.on('failed', () => count(-1));
     w.on('active', (job) => this.log(`${name}: job ${short(job)} started (attempt ${job.attemptsStarted})`));
     w.on('completed', (job) => this.log(`${name}: job ${short(job)} done`));
     w.on('failed', (job, err) => this.log(`${name}: job ${short(job)} failed: ${err.message}`));

@@ -136,3 +136,66 @@ export async function probeRedis(client: Redis, url: string, option = '--redis')
   }
   return redisServerWarnings(client);
 }
+
+/**
+ * How long one close step (a BullMQ queue, worker or event stream, an ioredis quit) may wait for Redis, ms. A
+ * healthy local or LAN server answers QUIT in milliseconds; BullMQ and ioredis retry forever while the server is
+ * away (maxRetriesPerRequest: null), so without a limit a close during a Redis outage waits for the server's
+ * return, however long. 5 s covers a restart that replays a small append-only file and keeps a shutdown short.
+ */
+export const CLOSE_LIMIT_MS = 5_000;
+
+/**
+ * Run `close` and wait at most `limitMs` for it; past the limit (or when it throws), call `force` (a forced
+ * disconnect that needs no server) and return false. Never throws and never waits longer than the limit.
+ */
+export async function closeWithin(close: () => unknown, force: () => unknown, limitMs: number = CLOSE_LIMIT_MS): Promise<boolean> {
+  let timer: NodeJS.Timeout | undefined;
+  const expired = new Promise<false>((resolve) => {
+    timer = setTimeout(() => resolve(false), limitMs);
+  });
+  let clean: boolean;
+  try {
+    clean = await Promise.race([Promise.resolve().then(close).then(() => true as const), expired]);
+  } catch {
+    clean = false;
+  } finally {
+    clearTimeout(timer);
+  }
+  if (!clean) {
+    try {
+      // A forced disconnect may return a promise that itself waits for the server; it is not awaited.
+      const p = force() as unknown;
+      if (p instanceof Promise) p.catch(() => undefined);
+    } catch {
+      // the connection is already gone
+    }
+  }
+  return clean;
+}
+
+/**
+ * Close an ioredis client within the limit: QUIT when connected (pending replies arrive first), else, or when
+ * QUIT does not come back in time (the server died under it), a disconnect that drops the socket and stops
+ * reconnecting.
+ */
+export function closeClient(client: Redis, limitMs: number = CLOSE_LIMIT_MS): Promise<boolean> {
+  if (client.status !== 'ready') {
+    client.disconnect();
+    return Promise.resolve(true);
+  }
+  return closeWithin(() => client.quit(), () => client.disconnect(), limitMs);
+}
+
+/**
+ * Last guard of a Redis command's exit, called once its work is done and its connections closed or dropped: a
+ * connection a library keeps reconnecting, or a thread it did not end, must not keep the process alive. The timer
+ * is unref'd, so it fires only when something else still holds the event loop after `limitMs`; the exit code the
+ * command set stands.
+ */
+export function exitIfStillHeld(log: (line: string) => void, limitMs: number = CLOSE_LIMIT_MS): void {
+  setTimeout(() => {
+    log(`warning: a Redis connection or thread was still open ${limitMs / 1000} s after the work was done; exiting`);
+    process.exit();
+  }, limitMs).unref();
+}

@@ -28,7 +28,7 @@ export function registerWorker(program: Command): void {
   addQueueOptions(cmd, { required: true, fromEnv: true, what: 'the queue to work for' });
   cmd.action(async (opts: WorkerCliOptions) => {
     if (!opts.redis) throw new UserError(`worker: give --redis URL (or set ${REDIS_URL_ENV}), e.g. --redis redis://127.0.0.1:6379`);
-    const [{ QueueWorker }, { probeRedis, redactedUrl, redisOptions }, { defaultMemoryCapBytes }, { Redis }] = await Promise.all([
+    const [{ QueueWorker }, { exitIfStillHeld, probeRedis, redactedUrl, redisOptions }, { defaultMemoryCapBytes }, { Redis }] = await Promise.all([
       import('../../worker/queue-worker.js'),
       import('../../worker/redis-connection.js'),
       import('../../worker/run-case.js'),
@@ -74,5 +74,6 @@ export function registerWorker(program: Command): void {
     log(`worker ready on ${redactedUrl(opts.redis)} (prefix ${opts.prefix}, concurrency ${opts.concurrency})`);
     await stopped;
     log('worker stopped');
+    exitIfStillHeld(log);
   });
 }

@@ -8,11 +8,13 @@ import { submitSweep, type SubmitSummary } from './submit.js';
 import { QueueHandles, queueTarget, type QueueSettings } from './target.js';
 import { openLedgerFor, prepareSweep, type SweepRun } from '../ledger/sweep-run.js';
 import { onStopSignals } from '../dispatch/stop-signals.js';
+import { CLOSE_LIMIT_MS, exitIfStillHeld } from '../../worker/redis-connection.js';
 import { SweepProgress } from '../dispatch/progress.js';
 
 export interface QueueSessionResult {
   readonly submitted?: SubmitSummary;
-  readonly collected: { committed: number; failed: number };
+  /** Results committed, failures recorded, and results refused (forged or stray; each logged on stderr). */
+  readonly collected: { committed: number; failed: number; refused: number };
   /** Every job of the sweep is done or failed. */
   readonly complete: boolean;
   /** Stopped by a signal before the sweep was complete. */
@@ -38,7 +40,9 @@ export async function withQueue<T>(
     return await body(run, handles);
   } finally {
     run?.ledger.close();
-    await handles.close();
+    const clean = await handles.close();
+    if (!clean) process.stderr.write(`warning: Redis did not answer while closing; disconnected after ${CLOSE_LIMIT_MS / 1000} s\n`);
+    exitIfStillHeld((line) => process.stderr.write(`${line}\n`));
   }
 }
 
@@ -56,15 +60,17 @@ export async function queueSession(
       `${handles.target.queueName}: ${submitted.added} job(s) queued, ${submitted.alreadyQueued} already queued, ${submitted.finished} finished before\n`,
     );
   }
-  const totals = { committed: 0, failed: 0 };
+  const totals = { committed: 0, failed: 0, refused: 0 };
   const add = (s: CollectSummary) => {
     totals.committed += s.committed;
     totals.failed += s.failed;
+    totals.refused += s.refused.length;
   };
   if (!how.follow) {
     add(await collectOnce(handles, ledger));
     const complete = isComplete(ledger);
     if (complete) await retireQueue(handles);
+    reportRefusals(totals.refused);
     return { submitted, collected: totals, complete, stopped: false };
   }
 
@@ -98,7 +104,12 @@ export async function queueSession(
   }
   bar?.finish(progress.state(new Map()));
   if (complete) await retireQueue(handles);
+  reportRefusals(totals.refused);
   return { submitted, collected: totals, complete, stopped: !complete };
+}
+
+function reportRefusals(n: number): void {
+  if (n > 0) process.stderr.write(`warning: ${n} result(s) refused (one line each above): forged, stray, or sealed with another LOAMWAVE_RESULT_KEY\n`);
 }
 
 export function isComplete(ledger: Ledger): boolean {

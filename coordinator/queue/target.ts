@@ -5,7 +5,7 @@ import { Queue, QueueEvents } from 'bullmq';
 import { Redis } from 'ioredis';
 import { UserError } from '../../schemas/errors.js';
 import { queueNameFor, registryKey } from '../../schemas/queue-names.js';
-import { probeRedis, redactedUrl, redisOptions, type RedisSettings } from '../../worker/redis-connection.js';
+import { CLOSE_LIMIT_MS, closeClient, closeWithin, probeRedis, redactedUrl, redisOptions, type RedisSettings } from '../../worker/redis-connection.js';
 
 /** Where a queue command connects, as the command line gives it (`--redis`, `--redis-ca`, `--prefix`). */
 export interface QueueSettings {
@@ -60,6 +60,8 @@ export class QueueHandles {
     }
     // Connected: from now on ride out a Redis restart like the BullMQ connections do (ioredis' default backoff).
     h.client.options.retryStrategy = (times: number) => Math.min(times * 50, 2000);
+    // The BullMQ handles report a lost connection; this client's errors would otherwise be unhandled error events.
+    h.client.on('error', () => undefined);
     return { handles: h, warnings };
   }
 
@@ -86,16 +88,21 @@ export class QueueHandles {
     return registryKey(this.target.prefix);
   }
 
-  async close(): Promise<void> {
-    if (this.closed) return;
+  /**
+   * Close the events, the queue and the client, each within `limitMs`: a step that does not finish in time (Redis
+   * died or is restarting under it) is disconnected forcibly, so closing never waits for the server to return.
+   * Returns false when any step had to be forced. Safe to call twice.
+   */
+  async close(limitMs: number = CLOSE_LIMIT_MS): Promise<boolean> {
+    if (this.closed) return true;
     this.closed = true;
-    const steps = [() => this.events?.close(), () => this.queueHandle?.close(), () => (this.client.status === 'ready' ? this.client.quit() : this.client.disconnect())];
-    for (const step of steps) {
-      try {
-        await step();
-      } catch {
-        // every clean-up runs even when one fails
-      }
-    }
+    const events = this.events;
+    const queue = this.queueHandle;
+    const clean = [
+      events ? await closeWithin(() => events.close(), () => events.disconnect(), limitMs) : true,
+      queue ? await closeWithin(() => queue.close(), () => queue.disconnect(), limitMs) : true,
+      await closeClient(this.client, limitMs),
+    ];
+    return clean.every(Boolean);
   }
 }
