@@ -93,8 +93,9 @@ export function planGrid(c: Case): GridPlan {
   let dzGroundM = dxM;
   if (c.ground.model === 'resolved') {
     const depths = (c.ground.segments ?? []).map((s) => groundImpedance(c.frequency_hz, s.conductivity_s_per_m, s.relative_permittivity).skinDepthM);
-    const deltaMin = Math.min(...depths);
-    const deltaMax = Math.max(...depths);
+    // reduce, not Math.min(...depths): a spread of 10^5 segments overflows the call stack
+    const deltaMin = depths.reduce((m, d) => Math.min(m, d), Infinity);
+    const deltaMax = depths.reduce((m, d) => Math.max(m, d), -Infinity);
     dzGroundM = Math.min(dxM, deltaMin / 4);
     groundRows = Math.ceil((c.ground.resolved_depth_skin_depths * deltaMax) / dzGroundM);
   }
@@ -133,7 +134,7 @@ export function planGrid(c: Case): GridPlan {
   }
   const dxGroundM = earthR !== undefined ? (dxM * (earthR + zNodeM[0])) / earthR : dxM;
   if (groundRows > 0) {
-    const epsMin = Math.min(...(c.ground.segments ?? []).map((s) => s.relative_permittivity));
+    const epsMin = (c.ground.segments ?? []).reduce((m, s) => Math.min(m, s.relative_permittivity), Infinity);
     const vGround = C0 / Math.sqrt(epsMin);
     dtLimit = Math.min(dtLimit, 1 / (vGround * Math.sqrt(1 / (dxGroundM * dxGroundM) + 1 / (dzGroundM * dzGroundM))));
     // the first air row above the fine ground rows uses the air speed with the mean spacing

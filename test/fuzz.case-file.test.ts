@@ -75,6 +75,13 @@ describe('fuzzing the case file', () => {
     expect(seen.refused).toBeGreaterThan(IN_MEMORY_RUNS / 4);
   });
 
+  it('when a resolved ground lists 150 000 segments then the checks and the estimate end without a stack overflow', () => {
+    // found by hand beside the fuzzing: Math.min(...list) over so many arguments overflowed the call stack
+    const segments = Array.from({ length: 150_000 }, (_, i) => ({ start_m: i * 0.5, conductivity_s_per_m: i % 2 ? 5 : 0.01, relative_permittivity: 70 }));
+    const input = { frequency_hz: 20000, ground: { model: 'resolved', segments }, domain: { range_m: 1e5, height_m: 1e4 }, receivers: { ranges_m: [100] } };
+    expect(throughChecks(input, 'case.json')).toBe('valid');
+  });
+
   it(`when ${CLI_RUNS} damaged case files that the checks refuse go to \`loamwave solve\` then it exits 2 with one line`, async () => {
     let n = 0;
     let solvedNone = 0;
