@@ -7,6 +7,9 @@
 //     with the absorbing layers of the demo's thickness and once without (target: solve ≥ 0.85× the kernel).
 // Runs are interleaved so drifting load on a shared machine touches each alike; CPU time (this process) is printed
 // beside wall time, and ratios are given for both: on a busy machine the CPU ratio is the steadier one.
+// Where solve()'s time goes: `node --cpu-prof dist/bench/receiver-cost.js --repeats 1` writes a profile whose
+// self times split the updates (updateH, updateE, applySurfaceImpedance), the absorbing layers (updateHCpml,
+// updateECpml) and solve() itself (receivers' DFT, source, settling test; inlined into solve).
 // A benchmark, not a test: it asserts nothing.
 import { readFileSync } from 'node:fs';
 import { cpus, loadavg } from 'node:os';

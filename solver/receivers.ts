@@ -187,7 +187,8 @@ export class SampleDft {
   accumulate(n: number, fields: FieldArrays): void {
     const P = this.halfStepsPerPeriod;
     const base = (2 * n) % P;
-    for (const g of this.groups) {
+    for (let j = 0; j < this.groups.length; j++) {
+      const g = this.groups[j];
       const m = (base + g.halfStepOffset) % P;
       this.accumulateGroup(fields[g.field], g.start, g.end, this.cosT[m], this.sinT[m]);
     }
