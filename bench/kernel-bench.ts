@@ -33,22 +33,35 @@ const CELL_UPDATES_PER_RUN = 1.2e8;
 /** Steps run once before timing so the JIT has compiled the kernels (not counted). */
 const WARMUP_STEPS_SMALL_GRID = 200;
 
+/**
+ * What is timed on each grid: `plain`, leapfrogStep on per-cell coefficient arrays (the native reference's layout)
+ * with the surface-impedance row; `cpml`, the same with both absorbing layers; `profiles`, the plain step with
+ * coefficients shared by column profile, as solve() lays them out; `inTurn` and `cpmlInTurn`, the plain and CPML
+ * steps as the five updates one after another (the kernel before leapfrogStep: the same numbers, for the
+ * before/after ratio).
+ */
+const MEASURES = ['plain', 'cpml', 'profiles', 'inTurn', 'cpmlInTurn'] as const;
+type Measure = (typeof MEASURES)[number];
+
+interface MeasureResult {
+  /** Median of the runs, Mcells/s (nx·nz·steps / seconds / 1e6, the reference's own definition). */
+  mcellsPerS: number;
+  /** Median over the alternations of (ours ÷ native base) of the same alternation; null without the reference. */
+  ratio: number | null;
+  /** Smallest and largest of those per-alternation ratios: how noisy the machine was. */
+  ratioRange: [number, number] | null;
+  /** Every run's Mcells/s, for the record. */
+  runs: number[];
+}
+
 interface SizeResult {
   grid: string;
   nx: number;
   nz: number;
   steps: number;
-  /** Medians of `repeats` runs, Mcells/s (nx·nz·steps / seconds / 1e6, the reference's own definition). */
   nativeBaseMcellsPerS: number | null;
-  plainMcellsPerS: number;
-  cpmlMcellsPerS: number;
-  /** Ours ÷ native base, medians taken in the same run (null when the native reference was skipped). */
-  plainRatio: number | null;
-  cpmlRatio: number | null;
-  profilesMcellsPerS: number;
-  profilesRatio: number | null;
-  /** Every run's Mcells/s, for the record. */
-  runs: { nativeBase: number[]; plain: number[]; cpml: number[] };
+  nativeRuns: number[];
+  measures: Partial<Record<Measure, MeasureResult>>;
   /** Median CPU-time ÷ wall-time share of the runs: below 1, other work took the core for the rest. */
   cpuShare: { nativeBase: number | null; ours: number };
 }
@@ -63,8 +76,10 @@ interface BenchReport {
   native: { build: string } | { skipped: string };
   repeats: number;
   sizes: SizeResult[];
-  demo: { description: string; cells: number; steps: number; wallS: number[]; medianWallS: number; mcellsPerS: number };
-  startup: StartupTimes;
+  measures: Measure[];
+  /** Absent with --kernels-only. */
+  demo?: { description: string; cells: number; steps: number; wallS: number[]; medianWallS: number; mcellsPerS: number };
+  startup?: StartupTimes;
 }
 
 function median(xs: readonly number[]): number {
@@ -86,59 +101,59 @@ function pinMainThread(): boolean {
 function benchSize(
   size: GridSize,
   repeats: number,
+  measures: readonly Measure[],
   ref: NativeReference | undefined,
   log: (s: string) => void,
 ): SizeResult {
   const { nx, nz } = size;
   const steps = Math.max(1, Math.round(CELL_UPDATES_PER_RUN / (nx * nz)));
   const cells = nx * nz * steps;
-  const grids: Record<KernelVariant, BenchGrid> = {
-    plain: buildBenchGrid(nx, nz),
-    cpml: buildBenchGrid(nx, nz),
-    profiles: buildBenchGrid(nx, nz, 'profiles'),
-  };
-  const runs = { nativeBase: [] as number[], plain: [] as number[], cpml: [] as number[], profiles: [] as number[] };
+  const variantOf: Record<Measure, KernelVariant> = { plain: 'plain', cpml: 'cpml', profiles: 'profiles', inTurn: 'plain', cpmlInTurn: 'cpml' };
+  const grids = new Map<Measure, BenchGrid>();
+  for (const m of measures) grids.set(m, buildBenchGrid(nx, nz, m === 'profiles' ? 'profiles' : 'per-cell'));
+  const nativeRuns: number[] = [];
+  const runs = new Map<Measure, number[]>(measures.map((m) => [m, []]));
   const nativeShares: number[] = [];
   const ourShares: number[] = [];
-  // interleave the three measurements so drifting load on the shared machine touches each alike
+  // alternate the native run and ours so drifting load on the shared machine touches each alike
   for (let r = 0; r < repeats; r++) {
     if (ref) {
       const run = runNativeReference(ref, nx, nz, steps, 'base');
-      runs.nativeBase.push(run.mcellsPerS);
+      nativeRuns.push(run.mcellsPerS);
       if (run.cpuShare !== null) nativeShares.push(run.cpuShare);
     }
-    for (const v of ['plain', 'cpml', 'profiles'] as const) {
-      const t = runKernel(grids[v], v, steps);
-      runs[v].push(cells / t.wallS / 1e6);
+    for (const m of measures) {
+      const t = runKernel(grids.get(m)!, variantOf[m], steps, m === 'inTurn' || m === 'cpmlInTurn' ? 'in-turn' : 'step');
+      runs.get(m)!.push(cells / t.wallS / 1e6);
       ourShares.push(t.cpuS / t.wallS);
     }
     log(`  ${size.name} ${nx}×${nz}, ${steps} steps: run ${r + 1}/${repeats}`);
   }
-  for (const v of ['plain', 'cpml', 'profiles'] as const) {
-    if (!Number.isFinite(fieldEnergy(grids[v]))) throw new Error(`bench grid ${size.name} (${v}) diverged`);
+  const results: Partial<Record<Measure, MeasureResult>> = {};
+  for (const m of measures) {
+    if (!Number.isFinite(fieldEnergy(grids.get(m)!))) throw new Error(`bench grid ${size.name} (${m}) diverged`);
+    const ours = runs.get(m)!;
+    const paired = ref ? ours.map((x, r) => x / nativeRuns[r]) : [];
+    results[m] = {
+      mcellsPerS: median(ours),
+      ratio: ref ? median(paired) : null,
+      ratioRange: ref ? [Math.min(...paired), Math.max(...paired)] : null,
+      runs: ours,
+    };
   }
-  const nativeBase = ref ? median(runs.nativeBase) : null;
-  const plain = median(runs.plain);
-  const cpml = median(runs.cpml);
-  const profiles = median(runs.profiles);
   return {
     grid: size.name,
     nx,
     nz,
     steps,
-    nativeBaseMcellsPerS: nativeBase,
-    plainMcellsPerS: plain,
-    cpmlMcellsPerS: cpml,
-    plainRatio: nativeBase ? plain / nativeBase : null,
-    cpmlRatio: nativeBase ? cpml / nativeBase : null,
-    profilesMcellsPerS: profiles,
-    profilesRatio: nativeBase ? profiles / nativeBase : null,
-    runs,
+    nativeBaseMcellsPerS: ref ? median(nativeRuns) : null,
+    nativeRuns,
+    measures: results,
     cpuShare: { nativeBase: nativeShares.length ? median(nativeShares) : null, ours: median(ourShares) },
   };
 }
 
-function benchDemo(repeats: number): BenchReport['demo'] {
+function benchDemo(repeats: number): NonNullable<BenchReport['demo']> {
   const c = demoCase();
   const wallS: number[] = [];
   let cells = 0;
@@ -175,20 +190,25 @@ function printTable(rep: BenchReport): void {
   const loads = (l: number[]): string => l.map((x) => x.toFixed(2)).join(' ');
   out.push(`load average before ${loads(rep.loadAverageBefore)}, after ${loads(rep.loadAverageAfter)}`);
   out.push('build' in rep.native ? `native reference: ${rep.native.build}, base variant` : `native reference skipped: ${rep.native.skipped}`);
-  out.push(`Mcells/s = nx·nz·steps / wall s / 1e6, median of ${rep.repeats}, one core; CPU share = CPU s / wall s (1: the core was ours)`);
+  out.push(`Mcells/s = nx·nz·steps / wall s / 1e6, median of ${rep.repeats}, one core; ours/C = median over the alternations of`);
+  out.push('each one\'s ratio [smallest–largest]; CPU share = CPU s / wall s (1: the core was ours)');
+  out.push('plain: leapfrogStep, per-cell coefficients; +CPML: with both layers; profiles: solve()\'s coefficient layout;');
+  out.push('in turn: the plain (+CPML) step as updateH, (updateHCpml,) applySurfaceImpedance, updateE (, updateECpml) called one\nafter another, the kernel before leapfrogStep (the same numbers)');
   out.push('');
-  const header = ['grid', 'nx×nz', 'steps', 'C base', 'ours plain', 'plain/C', 'ours +CPML', 'CPML/C', 'ours profiles', 'profiles/C', 'CPU share C/ours'];
+  const shown = MEASURES.filter((m) => rep.sizes.some((s) => s.measures[m]));
+  const label: Record<Measure, string> = { plain: 'plain', cpml: '+CPML', profiles: 'profiles', inTurn: 'in turn', cpmlInTurn: '+CPML in turn' };
+  const header = ['grid', 'nx×nz', 'steps', 'C base', ...shown.flatMap((m) => [`ours ${label[m]}`, `${label[m]}/C`]), 'CPU share C/ours'];
   const rows = rep.sizes.map((s) => [
     s.grid,
     `${s.nx}×${s.nz}`,
     String(s.steps),
     fmt(s.nativeBaseMcellsPerS, 0),
-    fmt(s.plainMcellsPerS, 0),
-    fmt(s.plainRatio, 2),
-    fmt(s.cpmlMcellsPerS, 0),
-    fmt(s.cpmlRatio, 2),
-    fmt(s.profilesMcellsPerS, 0),
-    fmt(s.profilesRatio, 2),
+    ...shown.flatMap((m) => {
+      const r = s.measures[m];
+      if (!r) return ['—', '—'];
+      const range = r.ratioRange ? ` [${r.ratioRange[0].toFixed(2)}–${r.ratioRange[1].toFixed(2)}]` : '';
+      return [fmt(r.mcellsPerS, 0), `${fmt(r.ratio, 2)}${range}`];
+    }),
     `${fmt(s.cpuShare.nativeBase, 2)} / ${fmt(s.cpuShare.ours, 2)}`,
   ]);
   const widths = header.map((h, j) => Math.max(h.length, ...rows.map((r) => r[j].length)));
@@ -197,10 +217,14 @@ function printTable(rep: BenchReport): void {
   for (const r of rows) out.push(line(r));
   out.push('');
   const d = rep.demo;
-  out.push(`demo solve(): ${d.description}`);
-  out.push(`  ${d.cells} cells, ${d.steps} steps: ${d.medianWallS.toFixed(2)} s wall (median of ${d.wallS.length}), ${d.mcellsPerS.toFixed(0)} Mcells/s overall`);
+  if (d) {
+    out.push(`demo solve(): ${d.description}`);
+    out.push(`  ${d.cells} cells, ${d.steps} steps: ${d.medianWallS.toFixed(2)} s wall (median of ${d.wallS.length}), ${d.mcellsPerS.toFixed(0)} Mcells/s overall`);
+  }
   const st = rep.startup;
-  out.push(`start-up: loamwave --version ${st.versionS.toFixed(3)} s, --help ${st.helpS.toFixed(3)} s (median of ${st.runs} fresh processes; target ≤ 0.3 s)`);
+  if (st) {
+    out.push(`start-up: loamwave --version ${st.versionS.toFixed(3)} s, --help ${st.helpS.toFixed(3)} s (median of ${st.runs} fresh processes; target ≤ 0.3 s)`);
+  }
   process.stdout.write(out.join('\n') + '\n');
 }
 
@@ -218,16 +242,34 @@ function sizeList(v: string): string[] {
   return names;
 }
 
+function measureList(v: string): Measure[] {
+  const names = v.split(',').map((s) => s.trim());
+  for (const n of names) {
+    if (!(MEASURES as readonly string[]).includes(n)) throw new InvalidArgumentError(`unknown measurement "${n}"; choose from ${MEASURES.join(', ')}.`);
+  }
+  return MEASURES.filter((m) => names.includes(m));
+}
+
 async function main(): Promise<void> {
   const program = new Command('kernel-bench')
     .description('cell-updates per second of the FDTD kernels beside the native C reference')
     .option('--json', 'print the report as JSON on stdout')
     .option('--repeats <n>', 'timed runs per measurement (the median is reported)', positiveInt, 3)
     .option('--grids <names>', 'comma-separated grids: small, medium, large', sizeList, SIZES.map((s) => s.name))
+    .option('--measures <names>', `comma-separated kernel measurements: ${MEASURES.join(', ')}`, measureList, [...MEASURES])
+    .option('--kernels-only', 'skip the demo solve() and the start-up time')
     .option('--no-native', 'skip the native C reference')
     .option('--native-dir <path>', 'folder holding fdtd2d.c', defaultReferenceDir())
     .parse();
-  const opts = program.opts<{ json?: boolean; repeats: number; grids: string[]; native: boolean; nativeDir: string }>();
+  const opts = program.opts<{
+    json?: boolean;
+    repeats: number;
+    grids: string[];
+    measures: Measure[];
+    kernelsOnly?: boolean;
+    native: boolean;
+    nativeDir: string;
+  }>();
   const log = (s: string): void => void process.stderr.write(s + '\n');
 
   const loadAverageBefore = loadavg();
@@ -236,15 +278,21 @@ async function main(): Promise<void> {
   const ref = typeof built === 'string' ? undefined : built;
   if (typeof built === 'string') log(`native reference skipped: ${built}`);
   try {
-    // warm-up: compile both kernel paths before anything is timed
+    // warm-up: compile every kernel path before anything is timed
     const warm = buildBenchGrid(200, 100);
-    runKernel(warm, 'plain', WARMUP_STEPS_SMALL_GRID);
-    runKernel(warm, 'cpml', WARMUP_STEPS_SMALL_GRID);
-    const sizes = SIZES.filter((s) => opts.grids.includes(s.name)).map((s) => benchSize(s, opts.repeats, ref, log));
-    log('  demo solve()');
-    const demo = benchDemo(opts.repeats);
-    log('  start-up of the command line');
-    const startup = measureStartup();
+    for (const entry of ['step', 'in-turn'] as const) {
+      runKernel(warm, 'plain', WARMUP_STEPS_SMALL_GRID, entry);
+      runKernel(warm, 'cpml', WARMUP_STEPS_SMALL_GRID, entry);
+    }
+    const sizes = SIZES.filter((s) => opts.grids.includes(s.name)).map((s) => benchSize(s, opts.repeats, opts.measures, ref, log));
+    let demo: BenchReport['demo'];
+    let startup: BenchReport['startup'];
+    if (!opts.kernelsOnly) {
+      log('  demo solve()');
+      demo = benchDemo(opts.repeats);
+      log('  start-up of the command line');
+      startup = measureStartup();
+    }
     const report: BenchReport = {
       date: new Date().toISOString(),
       node: process.version,
@@ -254,6 +302,7 @@ async function main(): Promise<void> {
       pinnedToCore0: pinned && (ref?.pinned ?? true),
       native: ref ? { build: ref.build } : { skipped: String(built) },
       repeats: opts.repeats,
+      measures: opts.measures,
       sizes,
       demo,
       startup,

@@ -75,13 +75,13 @@ export interface ImpedanceRow {
   hsPrev: Float64Array;
 }
 
-/** Hy^{n+½} = Hy^{n−½} + Δt/μ0·(∂Ez/∂x − ∂Ex/∂z), from E^n. */
-export function updateH(f: YeeFields): void {
-  const { nx, nz, S, ex, ez, hy, chx, chz } = f;
-  for (let i = 0; i < nx; i++) {
+/** Hy^{n+½} = Hy^{n−½} + Δt/μ0·(∂Ez/∂x − ∂Ex/∂z), from E^n; on columns [i0, i1), rows k0 and up (default: all). */
+export function updateH(f: YeeFields, i0 = 0, i1 = f.nx, k0 = 0): void {
+  const { nz, S, ex, ez, hy, chx, chz } = f;
+  for (let i = i0; i < i1; i++) {
     const base = i * S;
-    let exBelow = ex[base];
-    let k = 0;
+    let exBelow = ex[base + k0];
+    let k = k0;
     for (; k + 7 < nz; k += 8) {
       const ik = base + k;
       const iu = ik + S; // the same row of the next column
@@ -211,33 +211,42 @@ export function updateHCpml(f: YeeFields, p: CpmlState): void {
  *   Hy0 = P + c·Ex0,  Ex0 = −(a+b)(wN·Hy0 + wF·Hy1) − (a−b)·Hs_prev,  c = Δt/(μ0Δz0).
  */
 export function applySurfaceImpedance(f: YeeFields, z: ImpedanceRow): void {
-  const { nx, S, ex, hy } = f;
-  const c = f.chz[0];
-  const { halfR, lOverDt, wNear, wFar, hsPrev } = z;
-  for (let i = 0; i < nx; i++) {
-    const ik = i * S;
-    const P = hy[ik] - c * ex[ik];
-    const apb = halfR[i] + lOverDt[i];
-    const amb = halfR[i] - lOverDt[i];
-    const h1 = hy[ik + 1];
-    const h0 = (P - c * apb * wFar * h1 - c * amb * hsPrev[i]) / (1 + wNear * c * apb);
-    const hs = wNear * h0 + wFar * h1;
-    const e0 = -apb * hs - amb * hsPrev[i];
-    hy[ik] = h0;
-    ex[ik] = e0;
-    hsPrev[i] = hs;
-  }
+  for (let i = 0; i < f.nx; i++) surfaceImpedanceColumn(f, z, i);
 }
 
-/** E^{n+1} from Hy^{n+½}: lossy-medium update of Ex (rows 1…nz−1) and Ez (columns 0…nx−1, axis included). */
-export function updateE(f: YeeFields): void {
-  const { nx, nz, S, ex, ez, hy, caEx, cbEx, caEz, cbEz, colEx, colEz, rp, rm, axisFactor } = f;
-  // axis / symmetry column
-  const z0 = colEz[0];
-  const x0 = colEx[0];
-  for (let k = 0; k < nz; k++) ez[k] = caEz[z0 + k] * ez[k] + cbEz[z0 + k] * axisFactor * hy[k];
-  for (let k = 1; k < nz; k++) ex[k] = caEx[x0 + k] * ex[k] + cbEx[x0 + k] * (hy[k - 1] - hy[k]);
-  for (let i = 1; i < nx; i++) {
+/** The surface-impedance solve above for column i alone. */
+function surfaceImpedanceColumn(f: YeeFields, z: ImpedanceRow, i: number): void {
+  const { S, ex, hy } = f;
+  const c = f.chz[0];
+  const { halfR, lOverDt, wNear, wFar, hsPrev } = z;
+  const ik = i * S;
+  const P = hy[ik] - c * ex[ik];
+  const apb = halfR[i] + lOverDt[i];
+  const amb = halfR[i] - lOverDt[i];
+  const h1 = hy[ik + 1];
+  const h0 = (P - c * apb * wFar * h1 - c * amb * hsPrev[i]) / (1 + wNear * c * apb);
+  const hs = wNear * h0 + wFar * h1;
+  const e0 = -apb * hs - amb * hsPrev[i];
+  hy[ik] = h0;
+  ex[ik] = e0;
+  hsPrev[i] = hs;
+}
+
+/**
+ * E^{n+1} from Hy^{n+½}: lossy-medium update of Ex (rows 1…nz−1) and Ez (columns 0…nx−1, axis included); on columns
+ * [i0, i1), rows k0 and up (default: all).
+ */
+export function updateE(f: YeeFields, i0 = 0, i1 = f.nx, k0 = 0): void {
+  const { nz, S, ex, ez, hy, caEx, cbEx, caEz, cbEz, colEx, colEz, rp, rm, axisFactor } = f;
+  const kx = Math.max(1, k0); // first Ex row: row 0 belongs to the ground condition
+  if (i0 === 0) {
+    // axis / symmetry column
+    const z0 = colEz[0];
+    const x0 = colEx[0];
+    for (let k = k0; k < nz; k++) ez[k] = caEz[z0 + k] * ez[k] + cbEz[z0 + k] * axisFactor * hy[k];
+    for (let k = kx; k < nz; k++) ex[k] = caEx[x0 + k] * ex[k] + cbEx[x0 + k] * (hy[k - 1] - hy[k]);
+  }
+  for (let i = Math.max(1, i0); i < i1; i++) {
     const base = i * S;
     const oEx = colEx[i] - base; // coefficient index = field index + offset
     const oEz = colEz[i] - base;
@@ -245,8 +254,8 @@ export function updateE(f: YeeFields): void {
     const p = rp[i];
     const m = rm[i];
     // Ex, rows 1…nz−1: −∂Hy/∂z from the H rows below and above the node
-    let hBelow = hy[base];
-    let ik = base + 1;
+    let hBelow = hy[base + kx - 1];
+    let ik = base + kx;
     for (; ik + 7 < end; ik += 8) {
       const h0 = hy[ik], h1 = hy[ik + 1], h2 = hy[ik + 2], h3 = hy[ik + 3];
       const h4 = hy[ik + 4], h5 = hy[ik + 5], h6 = hy[ik + 6], h7 = hy[ik + 7];
@@ -266,8 +275,8 @@ export function updateE(f: YeeFields): void {
       hBelow = h;
     }
     // Ez, rows 0…nz−1: (1/r)∂(rHy)/∂r from the H columns either side (im: the previous column)
-    ik = base;
-    let im = base - S;
+    ik = base + k0;
+    let im = ik - S;
     for (; ik + 7 < end; ik += 8, im += 8) {
       ez[ik] = caEz[ik + oEz] * ez[ik] + cbEz[ik + oEz] * (p * hy[ik] - m * hy[im]);
       ez[ik + 1] = caEz[ik + oEz + 1] * ez[ik + 1] + cbEz[ik + oEz + 1] * (p * hy[ik + 1] - m * hy[im + 1]);
@@ -380,4 +389,286 @@ export function updateECpml(f: YeeFields, p: CpmlState): void {
       hBelow = h;
     }
   }
+}
+
+// ---------------------------------------------------------------------------------------------------------------
+// One leapfrog step in a single sweep over the columns.
+//
+// `leapfrogStep` does what updateH, updateHCpml, applySurfaceImpedance, updateE and updateECpml do in turn, with the
+// same expression for every cell, so its results are bit-identical to theirs (test/fdtd-kernel.leapfrog-step.test.ts);
+// only the order of independent cell updates changes. Column i's H needs E of columns i and i+1 before their E
+// update, and column i's E needs H of columns i−1 and i after theirs; sweeping i upwards and finishing H, the
+// ground row and E of one column before the next meets both, so each column's fields are read from memory once
+// per step instead of twice (Taflove & Hagness, Computational Electrodynamics, 3rd ed. 2005, ch. 3, the 2-D TM updates
+// being reordered; the order is free because each update is explicit in the other field).
+// Inside a column away from the absorbing layers and the ground rows, H, Ex and Ez of one row are updated in one
+// loop pass, and rows whose coefficients are free space's (ca = 1, one cb, one Δt/(μ0Δz)) run in a loop of their
+// own with those constants: 1·x is x exactly, so the constant form is the same number.
+// ---------------------------------------------------------------------------------------------------------------
+
+/**
+ * Per column, the rows [lo, hi) of the fused loop whose coefficients are all free space's constants. Found once per
+ * grid and kept beside it: the coefficient arrays must not be changed in place after the first step (new arrays
+ * give a new plan).
+ */
+interface FreeSpacePlan {
+  readonly caEx: Float64Array;
+  readonly cbEx: Float64Array;
+  readonly caEz: Float64Array;
+  readonly cbEz: Float64Array;
+  readonly chz: Float64Array;
+  readonly colEx: Int32Array;
+  readonly colEz: Int32Array;
+  /** First row of the top layer (nz without one): the fused loop covers rows 2 … kTop−1. */
+  readonly kTop: number;
+  /** Free space's cb of Ex and Ez and its Δt/(μ0Δz). */
+  readonly cbEx0: number;
+  readonly cbEz0: number;
+  readonly chz0: number;
+  readonly lo: Int32Array;
+  readonly hi: Int32Array;
+}
+
+const plans = new WeakMap<YeeFields, FreeSpacePlan>();
+
+function freeSpacePlan(f: YeeFields, kTop: number): FreeSpacePlan {
+  const old = plans.get(f);
+  if (
+    old &&
+    old.kTop === kTop &&
+    old.caEx === f.caEx &&
+    old.cbEx === f.cbEx &&
+    old.caEz === f.caEz &&
+    old.cbEz === f.cbEz &&
+    old.chz === f.chz &&
+    old.colEx === f.colEx &&
+    old.colEz === f.colEz
+  ) {
+    return old;
+  }
+  const { nx, caEx, cbEx, caEz, cbEz, chz, colEx, colEz } = f;
+  const lo = new Int32Array(nx);
+  const hi = new Int32Array(nx);
+  // the candidate constants: the cell just below the top layer in the middle column, free space on any open grid
+  const ic = nx >> 1;
+  const kc = Math.max(0, kTop - 1);
+  const cbEx0 = cbEx[colEx[ic] + kc];
+  const cbEz0 = cbEz[colEz[ic] + kc];
+  const chz0 = chz[kc];
+  for (let i = 0; i < nx; i++) {
+    // the longest run of free-space rows in the column (Object.is: −0 is not +0 here)
+    let runLo = 2;
+    let best = 0;
+    let start = -1;
+    for (let k = 2; k <= kTop; k++) {
+      const free =
+        k < kTop &&
+        Object.is(caEx[colEx[i] + k], 1) &&
+        Object.is(cbEx[colEx[i] + k], cbEx0) &&
+        Object.is(caEz[colEz[i] + k], 1) &&
+        Object.is(cbEz[colEz[i] + k], cbEz0) &&
+        Object.is(chz[k], chz0);
+      if (free && start < 0) start = k;
+      if (!free && start >= 0) {
+        if (k - start > best) {
+          best = k - start;
+          runLo = start;
+        }
+        start = -1;
+      }
+    }
+    lo[i] = runLo;
+    hi[i] = runLo + best;
+  }
+  const plan: FreeSpacePlan = { caEx, cbEx, caEz, cbEz, chz, colEx, colEz, kTop, cbEx0, cbEz0, chz0, lo, hi };
+  plans.set(f, plan);
+  return plan;
+}
+
+/** Yee's H update (Taflove & Hagness 2005, ch. 3) on rows [k0, k1) of column i. */
+function hRows(f: YeeFields, i: number, k0: number, k1: number): void {
+  const { S, ex, ez, hy, chx, chz } = f;
+  const base = i * S;
+  for (let k = k0; k < k1; k++) {
+    const ik = base + k;
+    hy[ik] += chx * (ez[ik + S] - ez[ik]) - chz[k] * (ex[ik + 1] - ex[ik]);
+  }
+}
+
+/** Yee's lossy-medium E update (Taflove & Hagness 2005, ch. 3) on rows [k0, k1) of column i. */
+function eRows(f: YeeFields, i: number, k0: number, k1: number): void {
+  const { S, ex, ez, hy, caEx, cbEx, caEz, cbEz, colEx, colEz, rp, rm, axisFactor } = f;
+  const base = i * S;
+  const oEx = colEx[i] - base;
+  const oEz = colEz[i] - base;
+  for (let ik = base + Math.max(1, k0); ik < base + k1; ik++) {
+    ex[ik] = caEx[ik + oEx] * ex[ik] + cbEx[ik + oEx] * (hy[ik - 1] - hy[ik]);
+  }
+  if (i === 0) {
+    // axis / symmetry column: (1/r)∂(rHy)/∂r → 4Hy/Δr on the axis (axisFactor carries the factor)
+    for (let k = k0; k < k1; k++) ez[k] = caEz[colEz[0] + k] * ez[k] + cbEz[colEz[0] + k] * axisFactor * hy[k];
+    return;
+  }
+  const p = rp[i];
+  const m = rm[i];
+  for (let ik = base + k0; ik < base + k1; ik++) {
+    ez[ik] = caEz[ik + oEz] * ez[ik] + cbEz[ik + oEz] * (p * hy[ik] - m * hy[ik - S]);
+  }
+}
+
+/**
+ * H, then Ex and Ez, of rows [k0, k1) of column i ≥ 1 in one pass (k0 ≥ 2: the rows below are final), with the
+ * coefficient arrays: Yee's updates (Taflove & Hagness 2005, ch. 3) cell by cell, each written as in
+ * updateH and updateE. Row k's Ex needs the new Hy of rows k−1 and k, and row k's Hy the old Ex of rows k and k+1,
+ * so one pass upwards meets both. Four rows per pass share the typed arrays' checks (see the header); x0 carries
+ * the old Ex of the pass's first row, hBelow the new Hy of the row under it.
+ */
+function fusedRows(f: YeeFields, i: number, k0: number, k1: number): void {
+  const { S, ex, ez, hy, chx, chz, caEx, cbEx, caEz, cbEz } = f;
+  const base = i * S;
+  const oEx = f.colEx[i] - base; // coefficient index = field index + offset
+  const oEz = f.colEz[i] - base;
+  const p = f.rp[i];
+  const m = f.rm[i];
+  let x0 = ex[base + k0];
+  let hBelow = hy[base + k0 - 1];
+  let ik = base + k0;
+  const end = base + k1;
+  for (; ik + 3 < end; ik += 4) {
+    // old E of the four rows (and Ex of the row above them), Hy of the previous column
+    const x1 = ex[ik + 1], x2 = ex[ik + 2], x3 = ex[ik + 3], x4 = ex[ik + 4];
+    const z0 = ez[ik + 0], z1 = ez[ik + 1], z2 = ez[ik + 2], z3 = ez[ik + 3];
+    const u0 = ez[ik + S + 0], u1 = ez[ik + S + 1], u2 = ez[ik + S + 2], u3 = ez[ik + S + 3];
+    const w0 = hy[ik - S + 0], w1 = hy[ik - S + 1], w2 = hy[ik - S + 2], w3 = hy[ik - S + 3];
+    // Hy^{n+½} = Hy^{n−½} + chx·(Ez(i+1) − Ez(i)) − chz·(Ex(k+1) − Ex(k))
+    const h0 = hy[ik + 0] + (chx * (u0 - z0) - chz[ik - base] * (x1 - x0));
+    const h1 = hy[ik + 1] + (chx * (u1 - z1) - chz[ik - base + 1] * (x2 - x1));
+    const h2 = hy[ik + 2] + (chx * (u2 - z2) - chz[ik - base + 2] * (x3 - x2));
+    const h3 = hy[ik + 3] + (chx * (u3 - z3) - chz[ik - base + 3] * (x4 - x3));
+    hy[ik + 0] = h0;
+    hy[ik + 1] = h1;
+    hy[ik + 2] = h2;
+    hy[ik + 3] = h3;
+    // Ex^{n+1} = ca·Ex^n + cb·(Hy(k−1) − Hy(k)); Ez^{n+1} = ca·Ez^n + cb·(r₊·Hy(i) − r₋·Hy(i−1))
+    ex[ik] = caEx[ik + oEx] * x0 + cbEx[ik + oEx] * (hBelow - h0);
+    ex[ik + 1] = caEx[ik + oEx + 1] * x1 + cbEx[ik + oEx + 1] * (h0 - h1);
+    ex[ik + 2] = caEx[ik + oEx + 2] * x2 + cbEx[ik + oEx + 2] * (h1 - h2);
+    ex[ik + 3] = caEx[ik + oEx + 3] * x3 + cbEx[ik + oEx + 3] * (h2 - h3);
+    ez[ik] = caEz[ik + oEz] * z0 + cbEz[ik + oEz] * (p * h0 - m * w0);
+    ez[ik + 1] = caEz[ik + oEz + 1] * z1 + cbEz[ik + oEz + 1] * (p * h1 - m * w1);
+    ez[ik + 2] = caEz[ik + oEz + 2] * z2 + cbEz[ik + oEz + 2] * (p * h2 - m * w2);
+    ez[ik + 3] = caEz[ik + oEz + 3] * z3 + cbEz[ik + oEz + 3] * (p * h3 - m * w3);
+    x0 = x4;
+    hBelow = h3;
+  }
+  for (; ik < end; ik++) {
+    const exAbove = ex[ik + 1];
+    const ezHere = ez[ik];
+    const h = hy[ik] + (chx * (ez[ik + S] - ezHere) - chz[ik - base] * (exAbove - x0));
+    hy[ik] = h;
+    ex[ik] = caEx[ik + oEx] * x0 + cbEx[ik + oEx] * (hBelow - h);
+    ez[ik] = caEz[ik + oEz] * ezHere + cbEz[ik + oEz] * (p * h - m * hy[ik - S]);
+    x0 = exAbove;
+    hBelow = h;
+  }
+}
+
+/**
+ * fusedRows in free space: ca = 1, cb = cbEx0 / cbEz0, Δt/(μ0Δz) = chz0 on every row, so the coefficients are
+ * constants of the loop and no coefficient array is read (1·x = x exactly: the same numbers as with the arrays).
+ */
+function fusedFreeRows(f: YeeFields, i: number, k0: number, k1: number, cbEx0: number, cbEz0: number, chz0: number): void {
+  const { S, ex, ez, hy, chx } = f;
+  const base = i * S;
+  const p = f.rp[i];
+  const m = f.rm[i];
+  let x0 = ex[base + k0];
+  let hBelow = hy[base + k0 - 1];
+  let ik = base + k0;
+  const end = base + k1;
+  for (; ik + 3 < end; ik += 4) {
+    // old E of the four rows (and Ex of the row above them), Hy of the previous column
+    const x1 = ex[ik + 1], x2 = ex[ik + 2], x3 = ex[ik + 3], x4 = ex[ik + 4];
+    const z0 = ez[ik + 0], z1 = ez[ik + 1], z2 = ez[ik + 2], z3 = ez[ik + 3];
+    const u0 = ez[ik + S + 0], u1 = ez[ik + S + 1], u2 = ez[ik + S + 2], u3 = ez[ik + S + 3];
+    const w0 = hy[ik - S + 0], w1 = hy[ik - S + 1], w2 = hy[ik - S + 2], w3 = hy[ik - S + 3];
+    // Hy^{n+½} = Hy^{n−½} + chx·(Ez(i+1) − Ez(i)) − chz·(Ex(k+1) − Ex(k))
+    const h0 = hy[ik + 0] + (chx * (u0 - z0) - chz0 * (x1 - x0));
+    const h1 = hy[ik + 1] + (chx * (u1 - z1) - chz0 * (x2 - x1));
+    const h2 = hy[ik + 2] + (chx * (u2 - z2) - chz0 * (x3 - x2));
+    const h3 = hy[ik + 3] + (chx * (u3 - z3) - chz0 * (x4 - x3));
+    hy[ik + 0] = h0;
+    hy[ik + 1] = h1;
+    hy[ik + 2] = h2;
+    hy[ik + 3] = h3;
+    // Ex^{n+1} = ca·Ex^n + cb·(Hy(k−1) − Hy(k)); Ez^{n+1} = ca·Ez^n + cb·(r₊·Hy(i) − r₋·Hy(i−1))
+    ex[ik] = x0 + cbEx0 * (hBelow - h0);
+    ex[ik + 1] = x1 + cbEx0 * (h0 - h1);
+    ex[ik + 2] = x2 + cbEx0 * (h1 - h2);
+    ex[ik + 3] = x3 + cbEx0 * (h2 - h3);
+    ez[ik] = z0 + cbEz0 * (p * h0 - m * w0);
+    ez[ik + 1] = z1 + cbEz0 * (p * h1 - m * w1);
+    ez[ik + 2] = z2 + cbEz0 * (p * h2 - m * w2);
+    ez[ik + 3] = z3 + cbEz0 * (p * h3 - m * w3);
+    x0 = x4;
+    hBelow = h3;
+  }
+  for (; ik < end; ik++) {
+    const exAbove = ex[ik + 1];
+    const ezHere = ez[ik];
+    const h = hy[ik] + (chx * (ez[ik + S] - ezHere) - chz0 * (exAbove - x0));
+    hy[ik] = h;
+    ex[ik] = x0 + cbEx0 * (hBelow - h);
+    ez[ik] = ezHere + cbEz0 * (p * h - m * hy[ik - S]);
+    x0 = exAbove;
+    hBelow = h;
+  }
+}
+
+/**
+ * One leapfrog step, E^n → H^{n+½} → E^{n+1}: the same numbers as
+ *   updateH(f); if (p) updateHCpml(f, p); if (z) applySurfaceImpedance(f, z); updateE(f); if (p) updateECpml(f, p)
+ * The columns before the far-side layer, below the top layer, go in one sweep (see the section comment above);
+ * the layers, an L of columns ix0… and rows kz0…, then take the five updates in turn. The sweep leaves E of the L
+ * untouched, which the L's H needs, and finishes H below kz0 and before ix0, which the L's E needs. The
+ * coefficient arrays must not be changed in place between steps.
+ */
+export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): void {
+  const { nx, nz } = f;
+  const kTop = p && p.pz > 0 ? p.kz0 : nz;
+  const ix0 = p && p.px > 0 ? p.ix0 : nx;
+  if (kTop < 2 || ix0 < 1) {
+    // a top layer down to the ground rows, or a far layer from the axis: nothing to sweep
+    updateH(f);
+    if (p) updateHCpml(f, p);
+    if (z) applySurfaceImpedance(f, z);
+    updateE(f);
+    if (p) updateECpml(f, p);
+    return;
+  }
+  const { lo, hi, cbEx0, cbEz0, chz0 } = freeSpacePlan(f, kTop);
+  const head = Math.min(2, nz);
+  // the axis column, rows below the top layer, update after update
+  hRows(f, 0, 0, kTop);
+  if (z) surfaceImpedanceColumn(f, z, 0);
+  eRows(f, 0, 0, kTop);
+  for (let i = 1; i < ix0; i++) {
+    // rows 0 and 1: H, the ground row's Ex (which needs H of both), then E
+    hRows(f, i, 0, head);
+    if (z) surfaceImpedanceColumn(f, z, i);
+    eRows(f, i, 0, head);
+    // rows 2 … kTop−1 in one pass per row, free-space rows with constant coefficients
+    fusedRows(f, i, 2, lo[i]);
+    fusedFreeRows(f, i, lo[i], hi[i], cbEx0, cbEz0, chz0);
+    fusedRows(f, i, hi[i], kTop);
+  }
+  if (!p) return;
+  // the layers: H of the L, its CPML terms (both layers whole), the ground row under the far layer, E, E's terms
+  updateH(f, 0, ix0, kTop);
+  updateH(f, ix0, nx, 0);
+  updateHCpml(f, p);
+  if (z) for (let i = ix0; i < nx; i++) surfaceImpedanceColumn(f, z, i);
+  updateE(f, 0, ix0, kTop);
+  updateE(f, ix0, nx, 0);
+  updateECpml(f, p);
 }
