@@ -72,6 +72,8 @@ describe('kernel speed', () => {
     expect(first.cached).toBe(false);
     expect(first.cell_updates_per_s).toBeGreaterThan(0);
     expect(first.measured_s).toBeGreaterThanOrEqual(0.5);
+    expect(first.job_overhead_s).toBeGreaterThanOrEqual(0);
+    expect(first.receiver_step_s).toBeGreaterThanOrEqual(0);
     const file = join(env.LOAMWAVE_CACHE_DIR, 'kernel-speed.json');
     expect(existsSync(file)).toBe(true);
     const second = kernelSpeed({ env });
@@ -103,7 +105,10 @@ describe('loamwave plan', () => {
         grid: { cells_per_wavelength: j.params['grid.cells_per_wavelength'] },
       });
       expect(j).toMatchObject(estimateCost(c));
-      expect(j.core_hours).toBeCloseTo(j.cell_updates / plan.cell_updates_per_s / 3600, 15);
+      // the cost model: a fixed cost per job, the updates at the measured rate, and each receiver's cost per step
+      const seconds = plan.job_overhead_s + j.cell_updates / plan.cell_updates_per_s + 2 * j.steps * plan.receiver_step_s;
+      expect(j.receivers).toBe(2);
+      expect(j.core_hours).toBeCloseTo(seconds / 3600, 15);
       total += j.cell_updates;
     }
     expect(plan.total_cell_updates).toBe(total);

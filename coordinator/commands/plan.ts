@@ -42,7 +42,7 @@ export function registerPlan(program: Command): void {
       const source = basename(path);
       const expansion = expandSweepDetailed(sweep, source);
       const speed = kernelSpeed({ remeasure: opts.remeasure });
-      const plan = planSweep(expansion, workers, speed.cell_updates_per_s, capBytes);
+      const plan = planSweep(expansion, workers, speed, capBytes);
       if (opts.json) {
         const out = {
           sweep: sweep.name,
@@ -116,7 +116,10 @@ function renderPlan(
   if (p.jobs > shown.length) lines.push(`… and ${p.jobs - shown.length} more (largest first; --json lists every job)`);
   lines.push('');
   const speedNote = cached ? 'cached measurement on this machine' : 'measured now on this machine';
-  lines.push(`kernel speed ${count(p.cell_updates_per_s)} cell updates/s per worker (${speedNote}; large grids may run slower)`);
+  lines.push(
+    `kernel speed ${count(p.cell_updates_per_s)} cell updates/s per worker, ${(p.job_overhead_s * 1000).toPrecision(2)} ms per job, ` +
+      `${(p.receiver_step_s * 1e9).toPrecision(2)} ns per receiver and step (${speedNote}; large grids may run slower)`,
+  );
   lines.push(`total ${count(p.total_cell_updates)} cell updates ≈ ${p.total_core_hours.toPrecision(3)} core-hours`);
   lines.push(`wall time on ${p.workers} worker(s), longest first: ≈ ${duration(p.wall_hours)}`);
   const verdict = p.fits ? 'within' : 'OVER';

@@ -1,12 +1,13 @@
-// How fast the solver runs on this machine, in cell updates per second: measured once by timing the real solver
-// on a tiny case, then cached in `$LOAMWAVE_CACHE_DIR/kernel-speed.json` (default `~/.cache/loamwave/`), keyed
+// How fast the solver runs on this machine: cell updates per second, and what a job pays beyond its updates (a
+// fixed set-up and hand-over cost, and a cost per receiver and time step). Measured once by timing the real solver
+// on small cases, then cached in `$LOAMWAVE_CACHE_DIR/kernel-speed.json` (default `~/.cache/loamwave/`), keyed
 // by solver version and CPU model so that an upgrade or another machine measures afresh.
 import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { cpus, homedir } from 'node:os';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { z } from 'zod';
-import { parseCase } from '../../schemas/case.js';
+import { parseCase, type Case } from '../../schemas/case.js';
 import { solve } from '../../solver/index.js';
 import { SOLVER_VERSION } from '../../solver/version.js';
 
@@ -15,6 +16,10 @@ export const KernelSpeedSchema = z.strictObject({
   cpu_model: z.string(),
   /** Cell updates per second of one solver thread. */
   cell_updates_per_s: z.number().positive().finite(),
+  /** Seconds a solve costs beyond its cell updates and receivers (allocation, set-up, settling checks, result). */
+  job_overhead_s: z.number().nonnegative().finite(),
+  /** Seconds per receiver per time step (its share of the running DFT, the settling test and the result). */
+  receiver_step_s: z.number().nonnegative().finite(),
   /** Seconds the measurement took, and how many solves it timed. */
   measured_s: z.number().nonnegative(),
   solves: z.number().int().positive(),
@@ -36,6 +41,17 @@ export const CALIBRATION_CASE = {
 
 /** Time spent measuring at least, seconds: long enough that timer resolution and JIT warm-up stop mattering. */
 const MIN_MEASURE_S = 0.5;
+/** Receivers of the many-receiver calibration solve: enough that their cost stands well above timing noise. */
+const MANY_RECEIVERS = 500;
+
+/** The tiny case that measures the fixed cost of a solve: 20 kHz, 12 km × 6 km, 8 cells per wavelength. */
+const TINY_CASE = {
+  frequency_hz: 20000,
+  ground: { model: 'impedance', segments: [{ start_m: 0, conductivity_s_per_m: 0.01, relative_permittivity: 30 }] },
+  domain: { range_m: 12000, height_m: 6000 },
+  grid: { cells_per_wavelength: 8, absorbing_cells: 8 },
+  receivers: { ranges_m: [6000] },
+} as const;
 
 export function cacheDir(env: NodeJS.ProcessEnv = process.env): string {
   return env.LOAMWAVE_CACHE_DIR ?? join(homedir(), '.cache', 'loamwave');
@@ -45,25 +61,48 @@ function cpuModel(): string {
   return cpus()[0]?.model?.trim() || 'unknown cpu';
 }
 
-/** Time the real solver on the calibration case (one untimed warm-up solve, then at least MIN_MEASURE_S). */
-export function measureKernelSpeed(nowMs: () => number = Date.now): KernelSpeed {
-  const c = parseCase(CALIBRATION_CASE, 'calibration case');
+/** Mean seconds per solve of `c` over at least `minS` seconds (after one untimed warm-up solve). */
+function timeSolves(c: Case, minS: number): { seconds: number; updates: number; steps: number; solves: number } {
   solve(c);
   let updates = 0;
   let solves = 0;
+  let steps = 0;
   const start = performance.now();
   let elapsedS = 0;
-  while (elapsedS < MIN_MEASURE_S) {
-    updates += solve(c).grid.cell_updates;
+  while (elapsedS < minS || solves === 0) {
+    const r = solve(c);
+    updates += r.grid.cell_updates;
+    steps = r.grid.steps;
     solves++;
     elapsedS = (performance.now() - start) / 1000;
   }
+  return { seconds: elapsedS / solves, updates: updates / solves, steps, solves };
+}
+
+/**
+ * Time the real solver: the calibration case for the update rate, the same case with MANY_RECEIVERS receivers for
+ * the cost per receiver and step, and a tiny case for the fixed cost of a solve. Each cost is what the other two
+ * leave unexplained, floored at zero.
+ */
+export function measureKernelSpeed(nowMs: () => number = Date.now): KernelSpeed {
+  const began = performance.now();
+  const calibration = parseCase(CALIBRATION_CASE, 'calibration case');
+  const base = timeSolves(calibration, MIN_MEASURE_S);
+  const rate = base.updates / base.seconds;
+  const ranges = Array.from({ length: MANY_RECEIVERS }, (_, i) => 5000 + (i * 140000) / MANY_RECEIVERS);
+  const many = timeSolves(parseCase({ ...CALIBRATION_CASE, receivers: { ranges_m: ranges } }, 'calibration case, many receivers'), 0);
+  const extraReceivers = MANY_RECEIVERS - CALIBRATION_CASE.receivers.ranges_m.length;
+  const receiverStepS = Math.max(0, (many.seconds - base.seconds) / (extraReceivers * many.steps));
+  const tiny = timeSolves(parseCase(TINY_CASE, 'tiny calibration case'), MIN_MEASURE_S / 5);
+  const jobOverheadS = Math.max(0, tiny.seconds - tiny.updates / rate - TINY_CASE.receivers.ranges_m.length * tiny.steps * receiverStepS);
   return {
     solver_version: SOLVER_VERSION,
     cpu_model: cpuModel(),
-    cell_updates_per_s: updates / elapsedS,
-    measured_s: elapsedS,
-    solves,
+    cell_updates_per_s: rate,
+    job_overhead_s: jobOverheadS,
+    receiver_step_s: receiverStepS,
+    measured_s: (performance.now() - began) / 1000,
+    solves: base.solves + many.solves + tiny.solves + 3,
     measured_at_ms: nowMs(),
   };
 }

@@ -1,6 +1,7 @@
 // What a sweep will cost before anything runs: per-job cells, steps, memory and core-hours (from the solver's
-// own estimate and a measured kernel speed), the wall time on N workers with longest-first list scheduling,
-// and the largest job against a memory cap. Pure: the speed and the cap are passed in.
+// own estimate and the measured costs of this machine: cell updates, a fixed cost per job, a cost per receiver
+// and step), the wall time on N workers with longest-first list scheduling, and the largest job against a memory
+// cap. Pure: the costs and the cap are passed in.
 import { estimateCost } from '../../solver/index.js';
 import { describeParams, type Expansion } from './expand.js';
 
@@ -12,8 +13,23 @@ export interface JobPlan {
   steps: number;
   memory_bytes: number;
   cell_updates: number;
-  /** cell_updates / kernel speed / 3600. */
+  receivers: number;
+  /** jobSeconds(...) / 3600. */
   core_hours: number;
+}
+
+/** What one solver thread pays on this machine (coordinator/sweep/kernel-speed.ts measures it). */
+export interface CostModel {
+  readonly cell_updates_per_s: number;
+  /** Seconds per job beyond its updates and receivers. */
+  readonly job_overhead_s: number;
+  /** Seconds per receiver per time step. */
+  readonly receiver_step_s: number;
+}
+
+/** Seconds one job takes on one solver thread: overhead + updates / rate + receivers × steps × per-step cost. */
+export function jobSeconds(job: { cell_updates: number; steps: number; receivers: number }, m: CostModel): number {
+  return m.job_overhead_s + job.cell_updates / m.cell_updates_per_s + job.receivers * job.steps * m.receiver_step_s;
 }
 
 export interface SweepPlan {
@@ -22,6 +38,8 @@ export interface SweepPlan {
   duplicates: number;
   workers: number;
   cell_updates_per_s: number;
+  job_overhead_s: number;
+  receiver_step_s: number;
   total_cell_updates: number;
   total_core_hours: number;
   /** Makespan of longest-first list scheduling on `workers` identical workers, hours. */
@@ -72,16 +90,20 @@ export function longestFirstMakespan(durations: readonly number[], workers: numb
   return heap.max();
 }
 
-/** Plan a sweep's expansion on `workers` workers at `cellUpdatesPerS`, against `memoryCapBytes` per job. */
-export function planSweep(expansion: Expansion, workers: number, cellUpdatesPerS: number, memoryCapBytes: number): SweepPlan {
+/**
+ * Plan a sweep's expansion on `workers` workers with the machine's costs (a bare number is an update rate with no
+ * other cost), against `memoryCapBytes` per job.
+ */
+export function planSweep(expansion: Expansion, workers: number, costs: CostModel | number, memoryCapBytes: number): SweepPlan {
+  const m: CostModel = typeof costs === 'number' ? { cell_updates_per_s: costs, job_overhead_s: 0, receiver_step_s: 0 } : costs;
   const perJob: JobPlan[] = expansion.jobs.map((j) => {
-    const cost = estimateCost(j.case);
+    const cost = { ...estimateCost(j.case), receivers: j.case.receivers.ranges_m.length };
     return {
       index: j.index,
       job_id: j.job_id,
       params: j.params,
       ...cost,
-      core_hours: cost.cell_updates / cellUpdatesPerS / 3600,
+      core_hours: jobSeconds(cost, m) / 3600,
     };
   });
   let largest: JobPlan | undefined;
@@ -92,9 +114,11 @@ export function planSweep(expansion: Expansion, workers: number, cellUpdatesPerS
     jobs: perJob.length,
     duplicates: expansion.duplicates.length,
     workers,
-    cell_updates_per_s: cellUpdatesPerS,
+    cell_updates_per_s: m.cell_updates_per_s,
+    job_overhead_s: m.job_overhead_s,
+    receiver_step_s: m.receiver_step_s,
     total_cell_updates: totalUpdates,
-    total_core_hours: totalUpdates / cellUpdatesPerS / 3600,
+    total_core_hours: perJob.reduce((sum, p) => sum + p.core_hours, 0),
     wall_hours: longestFirstMakespan(perJob.map((p) => p.core_hours), workers),
     largest_memory_bytes: largest?.memory_bytes ?? 0,
     largest_memory_job: largest?.index ?? null,
