@@ -166,8 +166,8 @@ describe('outputs', () => {
     ledger.commitResult(realResult(jobs[1]));
     // Fault injection: the result stream breaks after its first item, as a crash of the reader would.
     const breaking = Object.create(ledger) as Ledger;
-    breaking.results = function* () {
-      const it = ledger.results();
+    breaking.resultTexts = function* () {
+      const it = ledger.resultTexts();
       yield it.next().value!;
       throw new Error('simulated crash while writing fields');
     };

@@ -1,7 +1,7 @@
 // The analysis of a sweep's tables: grid convergence along the resolution axis and sensitivity indices for the
 // sweep's design, from the rows of runs.parquet and fields/ as read back (read-tables.ts). Pure: rows in, rows
 // out; outputs/ writes them to Parquet and report/ draws them.
-import { convergenceTable, type ConvergenceRun } from './grid-convergence.js';
+import { convergenceGroupKey, convergenceTable, type ConvergenceRun } from './grid-convergence.js';
 import { ResolutionAxisSchema, type ConvergenceRow } from '../../schemas/analysis-rows.js';
 import { elementaryEffectRows, elementaryEffects, type EffectScale } from './morris.js';
 import { residualPhaseDeg } from './residual-phase.js';
@@ -9,7 +9,7 @@ import { regressionRows, standardisedRegression } from './regression.js';
 import { saltelliIndices, saltelliRows } from './saltelli.js';
 import { saltelliRowOfRole } from '../sampling/saltelli-layout.js';
 import { type SensitivityRow } from '../../schemas/analysis-rows.js';
-import type { Cell, FieldRecord, FolderTables, RunRecord } from './read-tables.js';
+import type { Cell, FieldReader, FieldRecord, FolderTables, RunRecord } from './read-tables.js';
 import { generatorKind, type Sweep } from '../../schemas/sweep.js';
 import { columnNameFor } from '../../schemas/table-rows.js';
 import { unwrapNearDeg } from '../../solver/phase.js';
@@ -85,35 +85,131 @@ export function computeConvergence(tables: FolderTables, options: AnalysisOption
   });
 }
 
-/** Outputs analysed for sensitivity: Ez in dB and the residual phase, at each receiver range of the sweep. */
-function outputsOf(tables: FolderTables, runs: readonly RunRecord[]): Map<string, Map<string, number>> {
-  const byJob = fieldsByJob(tables.fields);
-  const outputs = new Map<string, Map<string, number>>();
-  const put = (output: string, job: string, v: number) => {
-    const m = outputs.get(output) ?? new Map<string, number>();
-    m.set(job, v);
-    outputs.set(output, m);
+/**
+ * The convergence rows out of core: the groups are formed from runs.parquet alone, only the runs the study uses
+ * (the first of each resolution level in each group of three levels or more) are read, group after group, and
+ * each group's rows go to `sink` before the next is read. Gives the rows `computeConvergence` gives, in order.
+ */
+export async function computeConvergenceOutOfCore(
+  tables: FolderTables,
+  reader: FieldReader,
+  options: AnalysisOptions,
+  sink: (rows: readonly ConvergenceRow[]) => Promise<void>,
+): Promise<number> {
+  const axisPath = tables.sweep.resolution_axis;
+  if (axisPath === undefined) return 0;
+  const axis = ResolutionAxisSchema.safeParse(axisPath.replace(/^grid\./, ''));
+  if (!axis.success) return 0;
+  const column = columnNameFor(axisPath);
+  const params = paramColumnsOf(tables.sweep);
+  const withFields = await reader.jobsWithFields();
+  const groups = new Map<string, Map<number, { id: string; run: Omit<ConvergenceRun, 'receivers'> }>>();
+  for (const run of tables.runs) {
+    const resolution = num(run[column]);
+    const id = String(run.job_id);
+    if (run.status !== 'done' || resolution === undefined || !withFields.has(id)) continue;
+    const p = Object.fromEntries(params.map((q) => [q.column, run[q.column] ?? null]));
+    const key = convergenceGroupKey(p, column);
+    const levels = groups.get(key) ?? new Map<number, { id: string; run: Omit<ConvergenceRun, 'receivers'> }>();
+    // convergenceTable keeps the first run of each level of a group.
+    if (!levels.has(resolution)) levels.set(resolution, { id, run: { params: p, resolution } });
+    groups.set(key, levels);
+  }
+  const used = [...groups.entries()].filter(([, levels]) => levels.size >= 3).sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
+  const order = used.flatMap(([, levels]) => [...levels.values()]);
+  const groupOf = new Map<string, number>();
+  used.forEach(([, levels], g) => levels.forEach((v) => groupOf.set(v.id, g)));
+  const runOf = new Map(order.map((o) => [o.id, o.run]));
+  const table = { axis: axis.data, resolutionColumn: column, toleranceDb: options.toleranceDb, tolerancePhaseDeg: options.tolerancePhaseDeg };
+  let rows = 0;
+  let group = -1;
+  let batch: ConvergenceRun[] = [];
+  const flush = async () => {
+    if (batch.length === 0) return;
+    const out = convergenceTable(batch, table);
+    rows += out.length;
+    await sink(out);
+    batch = [];
   };
-  for (const run of runs) {
+  for await (const { job_id, points } of reader.byJob(order.map((o) => o.id))) {
+    const g = groupOf.get(job_id)!;
+    if (g !== group) {
+      await flush();
+      group = g;
+    }
+    batch.push({ ...runOf.get(job_id)!, receivers: points });
+  }
+  await flush();
+  return rows;
+}
+
+/**
+ * Outputs analysed for sensitivity (Ez in dB and the residual phase at each receiver range), each held as one
+ * value per done run in a Float64Array (NaN: the run has none), so a sweep of many runs costs 8 bytes a value.
+ */
+export class OutputValues {
+  readonly outputs = new Map<string, Float64Array>();
+  private readonly jobPos: Map<string, number>;
+
+  constructor(jobs: readonly string[]) {
+    this.jobPos = new Map(jobs.map((j, k) => [j, k]));
+  }
+
+  put(output: string, job: string, v: number): void {
+    let a = this.outputs.get(output);
+    if (!a) {
+      a = new Float64Array(this.jobPos.size).fill(Number.NaN);
+      this.outputs.set(output, a);
+    }
+    a[this.jobPos.get(job)!] = v;
+  }
+
+  has(output: Float64Array, job: string): boolean {
+    const k = this.jobPos.get(job);
+    return k !== undefined && !Number.isNaN(output[k]);
+  }
+
+  get(output: Float64Array, job: string): number {
+    return output[this.jobPos.get(job)!];
+  }
+
+  /** The (job, value) pairs of one output that are present. */
+  *entries(output: Float64Array): Generator<[string, number]> {
+    for (const [job, k] of this.jobPos) if (!Number.isNaN(output[k])) yield [job, output[k]];
+  }
+
+  /** Add one run's outputs from its field rows (sorted by range, then height). */
+  addRun(run: RunRecord, sweep: Sweep, pts: readonly FieldRecord[]): void {
     const job = String(run.job_id);
-    const pts = byJob.get(job);
-    if (!pts) continue;
-    const series = { frequency_hz: frequencyOf(run, tables.sweep), points: pts };
-    const residual = residualPhaseDeg(series);
+    const residual = residualPhaseDeg({ frequency_hz: frequencyOf(run, sweep), points: pts });
     pts.forEach((p, k) => {
       const where = `${p.range_m / 1000}km`;
-      put(`ez_db_uv_per_m@${where}`, job, p.ez_db_uv_per_m);
-      put(`residual_phase_deg@${where}`, job, residual[k].value);
+      this.put(`ez_db_uv_per_m@${where}`, job, p.ez_db_uv_per_m);
+      this.put(`residual_phase_deg@${where}`, job, residual[k].value);
     });
   }
-  // Residual phases are defined modulo 360°: bring each output's values within half a turn of their median.
-  for (const [name, m] of outputs) {
-    if (!name.startsWith('residual_phase_deg')) continue;
-    const sorted = [...m.values()].sort((a, b) => a - b);
-    const median = sorted[Math.floor(sorted.length / 2)];
-    for (const [job, v] of m) m.set(job, unwrapNearDeg(v, median));
+
+  /** Residual phases are defined modulo 360°: bring each output's values within half a turn of their median. */
+  finish(): this {
+    for (const [name, a] of this.outputs) {
+      if (!name.startsWith('residual_phase_deg')) continue;
+      const sorted = a.filter((v) => !Number.isNaN(v)).sort();
+      const median = sorted[Math.floor(sorted.length / 2)];
+      for (let k = 0; k < a.length; k++) if (!Number.isNaN(a[k])) a[k] = unwrapNearDeg(a[k], median);
+    }
+    return this;
   }
-  return outputs;
+}
+
+/** The outputs of the done runs from field rows held in memory. */
+function outputsOf(tables: FolderTables, runs: readonly RunRecord[]): OutputValues {
+  const byJob = fieldsByJob(tables.fields);
+  const values = new OutputValues(runs.map((r) => String(r.job_id)));
+  for (const run of runs) {
+    const pts = byJob.get(String(run.job_id));
+    if (pts) values.addRun(run, tables.sweep, pts);
+  }
+  return values.finish();
 }
 
 /**
@@ -138,12 +234,32 @@ export function finestLevelRuns(tables: FolderTables, done: readonly RunRecord[]
 
 /** Sensitivity rows for the sweep's design, from the done runs; notes why when they cannot be computed. */
 export function computeSensitivity(tables: FolderTables, notes: Notes): SensitivityRow[] {
+  const params = paramColumnsOf(tables.sweep);
+  const done = tables.runs.filter((r) => r.status === 'done');
+  if (params.length === 0 || done.length === 0) return [];
+  return sensitivityFrom(tables, done, outputsOf(tables, done), notes);
+}
+
+/**
+ * The same, out of core: the field rows are read job by job from `reader` (the folder's fields/ table), and only
+ * the outputs (one double per run and receiver range) are held. Gives the rows `computeSensitivity` gives.
+ */
+export async function computeSensitivityOutOfCore(tables: FolderTables, reader: FieldReader, notes: Notes): Promise<SensitivityRow[]> {
+  const params = paramColumnsOf(tables.sweep);
+  const done = tables.runs.filter((r) => r.status === 'done');
+  if (params.length === 0 || done.length === 0) return [];
+  const ids = done.map((r) => String(r.job_id));
+  const values = new OutputValues(ids);
+  const runOf = new Map(done.map((r, k) => [ids[k], r]));
+  for await (const { job_id, points } of reader.byJob(ids)) values.addRun(runOf.get(job_id)!, tables.sweep, points);
+  return sensitivityFrom(tables, done, values.finish(), notes);
+}
+
+function sensitivityFrom(tables: FolderTables, done: readonly RunRecord[], values: OutputValues, notes: Notes): SensitivityRow[] {
   const sweep = tables.sweep;
   const resolutionColumn = sweep.resolution_axis ? columnNameFor(sweep.resolution_axis) : undefined;
   const params = paramColumnsOf(sweep);
-  const done = tables.runs.filter((r) => r.status === 'done');
-  if (params.length === 0 || done.length === 0) return [];
-  const outputs = outputsOf(tables, done);
+  const outputs = values.outputs;
   const rows: SensitivityRow[] = [];
   const design = sweep.design;
   if (design.kind === 'saltelli') {
@@ -159,7 +275,7 @@ export function computeSensitivity(tables: FolderTables, notes: Notes): Sensitiv
     }
     for (const [output, byJob] of outputs) {
       const y = new Float64Array(n * (d + 2)).fill(Number.NaN);
-      for (const [job, v] of byJob) {
+      for (const [job, v] of values.entries(byJob)) {
         const at = placed.get(job);
         if (at !== undefined) y[at] = v;
       }
@@ -193,10 +309,10 @@ export function computeSensitivity(tables: FolderTables, notes: Notes): Sensitiv
   const numeric = physical.filter((p) => atFinest.every((r) => num(r[p.column]) !== undefined));
   const isLog = (path: string) => ['log', 'log_uniform'].includes(generatorKind(sweep.vary[path]));
   for (const [output, byJob] of outputs) {
-    const used = atFinest.filter((r) => byJob.has(String(r.job_id)));
+    const used = atFinest.filter((r) => values.has(byJob, String(r.job_id)));
     if (numeric.length > 0 && used.length >= numeric.length + 2) {
       const x = used.map((r) => numeric.map((p) => (isLog(p.path) ? Math.log10(num(r[p.column])!) : num(r[p.column])!)));
-      const y = used.map((r) => byJob.get(String(r.job_id))!);
+      const y = used.map((r) => values.get(byJob, String(r.job_id)));
       try {
         const names = numeric.map((p) => (isLog(p.path) ? `log10(${p.column})` : p.column));
         rows.push(...regressionRows(output, names, standardisedRegression(x, y)));
@@ -207,7 +323,7 @@ export function computeSensitivity(tables: FolderTables, notes: Notes): Sensitiv
     if (design.kind === 'full_factorial') {
       const grid = used.map((r) => Object.fromEntries(numeric.map((p) => [p.column, num(r[p.column])!])));
       const scales: Record<string, EffectScale> = Object.fromEntries(numeric.map((p) => [p.column, isLog(p.path) ? 'log' : 'linear']));
-      const ee = elementaryEffects(grid, used.map((r) => byJob.get(String(r.job_id))!), numeric.map((p) => p.column), { scales });
+      const ee = elementaryEffects(grid, used.map((r) => values.get(byJob, String(r.job_id))), numeric.map((p) => p.column), { scales });
       rows.push(...elementaryEffectRows(output, ee));
     }
   }

@@ -209,8 +209,8 @@ export function cellSizeOf(axis: ResolutionAxis, resolution: number): number {
   return axis === 'cells_per_wavelength' ? 1 / resolution : resolution;
 }
 
-
-function canonicalGroup(params: Readonly<Record<string, ParamValue>>, skip: string): string {
+/** The group of a run: its other inputs, sorted, as JSON (the runs of a group differ only in resolution). */
+export function convergenceGroupKey(params: Readonly<Record<string, ParamValue>>, skip: string): string {
   const keys = Object.keys(params).filter((k) => k !== skip).sort();
   return JSON.stringify(Object.fromEntries(keys.map((k) => [k, params[k]])));
 }
@@ -231,7 +231,7 @@ export function convergenceTable(runs: readonly ConvergenceRun[], options: Conve
   const column = options.resolutionColumn ?? `grid_${options.axis}`;
   const groups = new Map<string, ConvergenceRun[]>();
   for (const run of runs) {
-    const key = canonicalGroup(run.params, column);
+    const key = convergenceGroupKey(run.params, column);
     const list = groups.get(key) ?? [];
     list.push(run);
     groups.set(key, list);

@@ -101,8 +101,12 @@ function parseTable<T>(schema: z.ZodType<T>, rows: Record<string, Cell>[], file:
   });
 }
 
-/** Read every table of an output folder. Throws UserError when the folder is not a sweep's output folder. */
-export async function readReportFolder(dir: string): Promise<FolderTables> {
+/**
+ * Read every table of an output folder (with `fields: false`, all but the field rows, which may not fit in
+ * memory: read those job by job with `openFieldReader`). Throws UserError when the folder is not a sweep's output
+ * folder.
+ */
+export async function readReportFolder(dir: string, options: { fields?: boolean } = {}): Promise<FolderTables> {
   if (!existsSync(dir) || !statSync(dir).isDirectory()) {
     throw new UserError(`report: ${dir}: no such folder; give the output folder of a sweep (the one holding runs.parquet)`, CODE);
   }
@@ -121,7 +125,7 @@ export async function readReportFolder(dir: string): Promise<FolderTables> {
     const runs = await readFile(conn, `SELECT * FROM read_parquet(${sqlPath(runsPath)})`, runsPath);
     const fieldsDir = join(dir, REPORT_INPUTS.fields);
     let fields: FieldRecord[] = [];
-    if (existsSync(fieldsDir)) {
+    if (existsSync(fieldsDir) && (options.fields ?? true)) {
       const glob = join(fieldsDir, '**', '*.parquet');
       const read = await readFile(
         conn,
@@ -148,4 +152,95 @@ export async function readReportFolder(dir: string): Promise<FolderTables> {
     conn.closeSync();
     db.closeSync();
   }
+}
+
+/** One job's field rows, sorted by range then height (as `fieldsByJob` sorts them). */
+export interface JobFields {
+  job_id: string;
+  points: FieldRecord[];
+}
+
+/** Reads the fields/ table of an output folder job by job, out of core (DuckDB sorts and spills to disk). */
+export interface FieldReader {
+  /** The ids of the jobs that have at least one field row. */
+  jobsWithFields(): Promise<Set<string>>;
+  /** The field rows of these jobs, one job at a time in the order given (jobs without rows are left out). */
+  byJob(jobIds: readonly string[]): AsyncGenerator<JobFields, void, undefined>;
+  close(): void;
+}
+
+/**
+ * Open the fields/ table of `dir` for reading job by job; DuckDB spills what does not fit in `memoryLimit` to
+ * `scratchDir`. A file that cannot be read is one line naming the folder (exit code 2).
+ */
+export async function openFieldReader(dir: string, scratchDir: string, memoryLimit = '384MB'): Promise<FieldReader> {
+  const fieldsDir = join(dir, REPORT_INPUTS.fields);
+  const glob = sqlPath(join(fieldsDir, '**', '*.parquet'));
+  const db = await DuckDBInstance.create(':memory:', { memory_limit: memoryLimit, temp_directory: join(scratchDir, 'read-spill') });
+  const conn = await db.connect();
+  const present = existsSync(fieldsDir);
+  const unreadable = (e: unknown) =>
+    new UserError(
+      `${fieldsDir}: cannot be read as a Parquet table (${String((e as Error).message ?? e).split('\n')[0].trim()}); write the outputs again with loamwave run or loamwave collect (they are rebuilt from the ledger)`,
+      'loamwave.outputs.unreadable',
+    );
+  return {
+    async jobsWithFields() {
+      if (!present) return new Set();
+      try {
+        const r = await conn.runAndReadAll(`SELECT DISTINCT job_id FROM read_parquet(${glob}, hive_partitioning = true)`);
+        return new Set(r.getColumns()[0].map(String));
+      } catch (e) {
+        throw unreadable(e);
+      }
+    },
+    async *byJob(jobIds) {
+      if (!present || jobIds.length === 0) return;
+      await conn.run('CREATE OR REPLACE TEMP TABLE wanted (job_id VARCHAR, ord BIGINT)');
+      const appender = await conn.createAppender('wanted');
+      jobIds.forEach((id, k) => {
+        appender.appendVarchar(id);
+        appender.appendBigInt(BigInt(k));
+        appender.endRow();
+      });
+      appender.flushSync();
+      appender.closeSync();
+      let result;
+      try {
+        result = await conn.stream(
+          `SELECT w.ord, f.range_m, f.height_m, f.ez_db_uv_per_m, f.ez_phase_deg
+           FROM read_parquet(${glob}, hive_partitioning = true) f JOIN wanted w USING (job_id)
+           ORDER BY w.ord, f.range_m, f.height_m`,
+        );
+      } catch (e) {
+        throw unreadable(e);
+      }
+      let current = -1;
+      let points: FieldRecord[] = [];
+      for (;;) {
+        let chunk;
+        try {
+          chunk = await result.fetchChunk();
+        } catch (e) {
+          throw unreadable(e);
+        }
+        if (!chunk || chunk.rowCount === 0) break;
+        const [ord, range, height, db_, phase] = chunk.getColumns() as [bigint[], number[], number[], number[], number[]];
+        for (let i = 0; i < ord.length; i++) {
+          const k = Number(ord[i]);
+          if (k !== current) {
+            if (current >= 0) yield { job_id: jobIds[current], points };
+            current = k;
+            points = [];
+          }
+          points.push({ job_id: jobIds[k], range_m: range[i], height_m: height[i], ez_db_uv_per_m: db_[i], ez_phase_deg: phase[i] });
+        }
+      }
+      if (current >= 0) yield { job_id: jobIds[current], points };
+    },
+    close() {
+      conn.closeSync();
+      db.closeSync();
+    },
+  };
 }

@@ -159,6 +159,18 @@ export class Ledger {
       reset: db.prepare(`UPDATE jobs SET status = 'pending' WHERE status = 'running'`),
       resetQueued: db.prepare(`UPDATE jobs SET status = 'pending' WHERE status IN ('running', 'queued')`),
       result: db.prepare<[string], { result_json: string }>(`SELECT result_json FROM results WHERE job_id = ?`),
+      textsPage: db.prepare<[number, number, string, number], { job_id: string; idx: number; result_json: string }>(
+        `SELECT jobs.job_id, jobs.idx, results.result_json FROM jobs JOIN results USING (job_id)
+         WHERE (jobs.idx > ?) OR (jobs.idx = ? AND jobs.job_id > ?)
+         ORDER BY jobs.idx, jobs.job_id LIMIT ?`,
+      ),
+      total: db.prepare<[], { n: number }>(`SELECT COUNT(*) AS n FROM jobs`),
+      finishedSince: db.prepare<[number], { t: number }>(
+        `SELECT finished_at_ms AS t FROM jobs WHERE status IN ('done', 'failed') AND finished_at_ms >= ?`,
+      ),
+      firstFailures: db.prepare<[number], { job_id: string; error: string | null }>(
+        `SELECT job_id, error FROM jobs WHERE status = 'failed' ORDER BY idx, job_id LIMIT ?`,
+      ),
       resultsPage: db.prepare<[number, number, string, number], JobRow & { result_json: string }>(
         `SELECT jobs.*, results.result_json FROM jobs JOIN results USING (job_id)
          WHERE (jobs.idx > ?) OR (jobs.idx = ? AND jobs.job_id > ?)
@@ -230,6 +242,22 @@ export class Ledger {
     }).immediate();
   }
 
+  /**
+   * Store several results in one transaction (one sync for all): each as `commitResult` would, all or none.
+   * For a collector that drains a batch of finished jobs at once.
+   */
+  commitResults(results: readonly JobResult[]): void {
+    const texts = results.map((r) => toExactJson(r));
+    this.db.transaction(() => {
+      results.forEach((result, k) => {
+        if (this.stmt.exists.get(result.job_id) === undefined) throw new UnknownJobError(result.job_id);
+        this.stmt.insertResult.run(result.job_id, texts[k]);
+        this.fault?.(result.job_id);
+        this.stmt.done.run(this.nowMs(), result.job_id);
+      });
+    }).immediate();
+  }
+
   /** The job failed for good (after `attempts` tries); a job already done is left done. */
   markFailed(id: string, reason: string, attempts: number): void {
     this.stmt.failed.run(reason, attempts, this.nowMs(), id);
@@ -266,6 +294,38 @@ export class Ledger {
       idx = last.idx;
       id = last.job_id;
     }
+  }
+
+  /**
+   * Every stored result as its JSON text (not parsed), with its job's id and index, in index order, a page at a
+   * time: for writers that hand the text on (the fields table) without building objects.
+   */
+  *resultTexts(): Generator<{ job_id: string; idx: number; result_json: string }, void, undefined> {
+    let idx = -1;
+    let id = '';
+    for (;;) {
+      const page = this.stmt.textsPage.all(idx, idx, id, RESULTS_PAGE);
+      yield* page;
+      if (page.length < RESULTS_PAGE) return;
+      const last = page[page.length - 1];
+      idx = last.idx;
+      id = last.job_id;
+    }
+  }
+
+  /** Number of jobs, by a COUNT (no rows loaded). */
+  jobCount(): number {
+    return this.stmt.total.get()!.n;
+  }
+
+  /** Finish times (ms) of the jobs done or failed at or after `sinceMs`. */
+  finishedSince(sinceMs: number): number[] {
+    return this.stmt.finishedSince.all(sinceMs).map((r) => r.t);
+  }
+
+  /** The first `limit` failed jobs in index order, with their errors. */
+  firstFailures(limit: number): Array<{ job_id: string; error: string | null }> {
+    return this.stmt.firstFailures.all(limit);
   }
 
   /** The ledger's revision: it changes whenever a job or a result does (triggers in SCHEMA_SQL). */

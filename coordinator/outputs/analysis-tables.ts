@@ -1,58 +1,96 @@
-// convergence.parquet and sensitivity.parquet: the analysis tables of a sweep, computed from the runs
-// and fields tables just written (read back through the report's folder reader, so the files and the report agree),
-// with Parquet columns derived from the row schemas, which are the contract. The report page is not written here:
+// convergence.parquet and sensitivity.parquet: the analysis tables of a sweep, computed out of core from the runs
+// and fields tables just written (read back through the report's folder reader, the field rows job by job, so the
+// files and the report agree, at any size), with Parquet columns derived from the row schemas, which are the
+// contract. The report page is not written here:
 // the command layer writes it, once, from these same tables.
-import { renameSync } from 'node:fs';
 import { join } from 'node:path';
 import { z } from 'zod';
 import { ConvergenceRowSchema } from '../../schemas/analysis-rows.js';
 import { SensitivityRowSchema } from '../../schemas/analysis-rows.js';
 import { columnsFromRowSchema } from './columns.js';
-import { ParquetTableWriter, type CellValue } from './parquet.js';
-import { computeConvergence, computeSensitivity } from '../analysis/compute-tables.js';
-import { readReportFolder } from '../analysis/read-tables.js';
+import { appendRow, sqlName, type CellValue, type DuckTableStore } from './parquet.js';
+import { computeConvergenceOutOfCore, computeSensitivityOutOfCore } from '../analysis/compute-tables.js';
+import { openFieldReader, readReportFolder } from '../analysis/read-tables.js';
 import { SOLVER_VERSION } from '../../solver/version.js';
 
-/** Write rows of a flat row schema to one Parquet file; non-finite numbers become null where the schema allows null. */
-export async function writeRowTable(path: string, schema: z.ZodObject, rows: readonly object[]): Promise<number> {
-  const columns = columnsFromRowSchema(schema);
-  const w = await ParquetTableWriter.open(path, columns);
-  try {
-    for (const row of rows) {
-      const r = row as Record<string, CellValue>;
-      const out: Record<string, CellValue> = {};
-      for (const c of columns) {
-        const v = r[c.name];
-        out[c.name] = c.nullable && typeof v === 'number' && !Number.isFinite(v) ? null : v;
-      }
-      await w.append(out);
-    }
-  } finally {
-    await w.close();
+/**
+ * A table of a flat row schema, filled a batch of rows at a time into the store, then written as one Parquet
+ * file; non-finite numbers become null where the schema allows null (and are an error where it does not).
+ */
+export class RowTable {
+  private rows = 0;
+  private constructor(
+    private readonly store: DuckTableStore,
+    private readonly table: string,
+    private readonly columns: ReturnType<typeof columnsFromRowSchema>,
+  ) {}
+
+  static async open(store: DuckTableStore, table: string, schema: z.ZodObject): Promise<RowTable> {
+    const columns = columnsFromRowSchema(schema);
+    await store.createTable(table, columns);
+    return new RowTable(store, table, columns);
   }
-  return rows.length;
+
+  async append(rows: readonly object[]): Promise<void> {
+    const appender = await this.store.appender(this.table);
+    try {
+      for (const row of rows) {
+        const r = row as Record<string, CellValue>;
+        const out: Record<string, CellValue> = {};
+        for (const c of this.columns) {
+          const v = r[c.name];
+          if (typeof v === 'number' && !Number.isFinite(v)) {
+            if (!c.nullable) throw new Error(`${this.table}: column ${c.name}: only finite numbers are written (got ${v})`);
+            out[c.name] = null;
+          } else out[c.name] = v;
+        }
+        appendRow(appender, this.columns, out);
+      }
+      appender.flushSync();
+    } finally {
+      appender.closeSync();
+    }
+    this.rows += rows.length;
+  }
+
+  /** Write the table to `path` (a temporary file beside it, renamed); returns its row count. */
+  async write(path: string): Promise<number> {
+    await this.store.copyToParquet(`SELECT * FROM ${sqlName(this.table)}`, path);
+    await this.store.conn.run(`DROP TABLE ${sqlName(this.table)}`);
+    return this.rows;
+  }
 }
 
 export const ANALYSIS_FILES = { convergence: 'convergence.parquet', sensitivity: 'sensitivity.parquet' } as const;
 
 /**
  * Compute convergence.parquet (and sensitivity.parquet when `sensitivity` is set) from the tables published in
- * `dir` (runs.parquet, fields/ and the sweep copy), write them under `stagingDir` and rename them into `dir`.
+ * `dir` (runs.parquet, fields/ and the sweep copy), out of core: the field rows are read job by job, the rows
+ * go to `store` (disk-backed) and each file is written beside its final name and renamed into `dir`.
+ * `scratchDir` takes DuckDB's spill files.
  */
 export async function writeAnalysisTables(
   dir: string,
-  stagingDir: string,
+  store: DuckTableStore,
+  scratchDir: string,
   options: { sensitivity?: boolean } = {},
 ): Promise<{ convergence: number; sensitivity: number | null }> {
-  const tables = await readReportFolder(dir);
-  const convergence = computeConvergence(tables, { generatedBy: `loamwave ${SOLVER_VERSION}` });
-  const counts = {
-    convergence: await writeRowTable(join(stagingDir, ANALYSIS_FILES.convergence), ConvergenceRowSchema, convergence),
-    sensitivity: options.sensitivity
-      ? await writeRowTable(join(stagingDir, ANALYSIS_FILES.sensitivity), SensitivityRowSchema, computeSensitivity(tables, { warnings: [] }))
-      : null,
-  };
-  renameSync(join(stagingDir, ANALYSIS_FILES.convergence), join(dir, ANALYSIS_FILES.convergence));
-  if (counts.sensitivity !== null) renameSync(join(stagingDir, ANALYSIS_FILES.sensitivity), join(dir, ANALYSIS_FILES.sensitivity));
-  return counts;
+  const tables = await readReportFolder(dir, { fields: false });
+  const reader = await openFieldReader(dir, scratchDir);
+  try {
+    const convergence = await RowTable.open(store, 'convergence', ConvergenceRowSchema);
+    await computeConvergenceOutOfCore(tables, reader, { generatedBy: `loamwave ${SOLVER_VERSION}` }, (rows) => convergence.append(rows));
+    let sensitivityRows: number | null = null;
+    let sensitivity: RowTable | null = null;
+    if (options.sensitivity) {
+      sensitivity = await RowTable.open(store, 'sensitivity', SensitivityRowSchema);
+      await sensitivity.append(await computeSensitivityOutOfCore(tables, reader, { warnings: [] }));
+    }
+    // Both computed before either is renamed in: a failure in the second leaves neither new file.
+    const convergenceRows = await convergence.write(join(dir, ANALYSIS_FILES.convergence));
+    if (sensitivity) sensitivityRows = await sensitivity.write(join(dir, ANALYSIS_FILES.sensitivity));
+    return { convergence: convergenceRows, sensitivity: sensitivityRows };
+  } finally {
+    reader.close();
+  }
 }

@@ -1,9 +1,9 @@
 // Merges a sweep's ledger into its output folder: `runs.parquet` (one row per job), `fields/` (one row per job and
 // receiver, Hive-partitioned as `part=<n>` by blocks of jobs), a copy of the sweep file, then the analysis tables
-// (`convergence.parquet`, and `sensitivity.parquet` on request) computed from them (report.html is the command
-// layer's, written after this from the same tables). Everything is written
+// (`convergence.parquet`, and `sensitivity.parquet` on request) computed from them out of core, at any size
+// (report.html is the command layer's, written after this from the same tables). Everything is written
 // under a staging folder and renamed into place at the end, so a crash never leaves half a table; rows stream
-// from the ledger, so memory is bounded by a row group, not by the sweep.
+// from the ledger through a disk-backed DuckDB table, so memory is bounded, not proportional to the sweep.
 import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Sweep } from '../../schemas/sweep.js';
@@ -14,7 +14,8 @@ import { columnsFromRowSchema } from './columns.js';
 import { sweepDigest, writeOutputState } from './state.js';
 import { SOLVER_VERSION } from '../../solver/version.js';
 import { ANALYSIS_FILES, writeAnalysisTables } from './analysis-tables.js';
-import { ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
+import { DuckTableStore, ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
+import { writeFieldParts } from './fields.js';
 import { expandSweep, type ExpandedJob } from '../sweep/expand.js';
 
 export interface OutputOptions {
@@ -28,8 +29,6 @@ export interface OutputOptions {
   readonly analysis?: boolean;
   /** Also write sensitivity.parquet (needs `analysis`). @defaultValue true */
   readonly sensitivityTable?: boolean;
-  /** Skip the analysis (which holds every field row in memory) above this many field rows. @defaultValue 1000000 */
-  readonly analysisMaxFieldRows?: number;
 }
 
 export interface OutputSummary {
@@ -41,17 +40,13 @@ export interface OutputSummary {
   /** Rows of convergence.parquet and sensitivity.parquet (null when `analysis` is off). */
   convergenceRows: number | null;
   sensitivityRows: number | null;
-  /** Why the analysis files were not written, when they were not although asked for. */
-  analysisSkipped: string | null;
 }
 
 /** File names inside the output folder. */
 export const OUTPUT_FILES = { runs: 'runs.parquet', fields: 'fields', sweep: 'sweep', report: 'report.html' } as const;
 const STAGING_PREFIX = '.outputs-staging-';
-/** Default rows per fields file: about five seconds of parquetjs-lite writing here (~19 s per 10^6 rows × 10 columns). */
+/** Default rows per fields file (a Loamwave choice: a few MB of ZSTD Parquet per file, a few row groups each). */
 const FIELD_ROWS_PER_FILE = 250_000;
-/** The analysis and report read every field row into memory (about 0.5 kB each as JS objects): a Loamwave choice. */
-const ANALYSIS_MAX_FIELD_ROWS = 1_000_000;
 
 /** The column of one varied parameter: DOUBLE when every value given is a number, else UTF8. */
 export function paramColumns(jobs: readonly ExpandedJob[], sweep: Sweep): Array<ColumnSpec & { path: string }> {
@@ -164,53 +159,21 @@ export async function writeOutputs(
     }
     await runs.close();
 
-    // fields/part=<n>/: receivers of done jobs, streamed from the ledger; one open writer per partition met.
+    // fields/part=<n>/: receivers of done jobs, from the ledger's result texts (never parsed here) into a
+    // disk-backed DuckDB table, then one Parquet file per partition; memory is bounded by DuckDB's limit.
     const byId = new Map(jobs.map((j) => [j.job_id, j]));
     const jobsPerPart = jobsPerPartFor(jobs, options.fieldRowsPerFile ?? FIELD_ROWS_PER_FILE);
     const fieldsDir = join(staging, OUTPUT_FILES.fields);
     mkdirSync(fieldsDir);
-    const writers = new Map<number, ParquetTableWriter>();
-    const columns = fieldColumns(params);
+    const store = await DuckTableStore.open(staging);
     let fieldRows = 0;
+    let parts: number[];
     try {
-      for (const { job: row, result } of ledger.results()) {
-        const job = byId.get(row.job_id);
-        if (!job) continue;
-        const part = Math.floor(job.index / jobsPerPart);
-        let w = writers.get(part);
-        if (!w) {
-          const dir = join(fieldsDir, `part=${part}`);
-          mkdirSync(dir);
-          w = await ParquetTableWriter.open(join(dir, 'data.parquet'), columns, { rowGroupRows });
-          writers.set(part, w);
-        }
-        const p = paramCells(job, params);
-        for (const r of result.receivers) {
-          const fieldRow: FieldRow = {
-            job_id: job.job_id,
-            index: job.index,
-            range_m: r.range_m,
-            height_m: r.height_m,
-            ez_re: r.ez.re,
-            ez_im: r.ez.im,
-            e_horizontal_re: r.e_horizontal.re,
-            e_horizontal_im: r.e_horizontal.im,
-            h_re: r.h.re,
-            h_im: r.h.im,
-            ez_db_uv_per_m: r.ez_db_uv_per_m,
-            ez_phase_deg: r.ez_phase_deg,
-          };
-          await w.append({ ...fieldRow, ...p });
-          fieldRows++;
-        }
-      }
-      if (writers.size === 0) {
-        // No results yet: one empty partition keeps `read_parquet('fields/**/*.parquet')` valid (zero rows).
-        mkdirSync(join(fieldsDir, 'part=0'));
-        writers.set(0, await ParquetTableWriter.open(join(fieldsDir, 'part=0', 'data.parquet'), columns, { rowGroupRows }));
-      }
+      const written = await writeFieldParts(store, ledger.resultTexts(), byId, params, jobsPerPart, fieldsDir);
+      fieldRows = written.rows;
+      parts = written.parts;
     } finally {
-      for (const w of writers.values()) await w.close();
+      store.close();
     }
 
     writeFileSync(join(staging, sweepCopyName(sweepText)), sweepText);
@@ -226,23 +189,23 @@ export async function writeOutputs(
       runs: jobs.length,
       fieldRows,
       jobsPerPart,
-      parts: writers.size,
+      parts: parts.length,
       convergenceRows: null,
       sensitivityRows: null,
-      analysisSkipped: null,
     };
     const recorded = (done: OutputSummary): OutputSummary => {
       writeOutputState(outDir, { ledger_revision: revision, sweep_sha256: sweepDigest(sweepText), solver_version: SOLVER_VERSION, report_revision: null });
       return done;
     };
     if (!(options.analysis ?? true)) return recorded(summary);
-    const maxRows = options.analysisMaxFieldRows ?? ANALYSIS_MAX_FIELD_ROWS;
-    if (fieldRows > maxRows) {
-      summary.analysisSkipped = `${fieldRows} field rows, more than the ${maxRows} the analysis holds in memory`;
-      return recorded(summary);
-    }
     // Second stage, from the tables just published: a failure here leaves runs.parquet and fields/ in place.
-    const analysis = await writeAnalysisTables(outDir, staging, { sensitivity: options.sensitivityTable ?? true });
+    const analysisStore = await DuckTableStore.open(staging);
+    let analysis: Awaited<ReturnType<typeof writeAnalysisTables>>;
+    try {
+      analysis = await writeAnalysisTables(outDir, analysisStore, staging, { sensitivity: options.sensitivityTable ?? true });
+    } finally {
+      analysisStore.close();
+    }
     summary.convergenceRows = analysis.convergence;
     summary.sensitivityRows = analysis.sensitivity;
     return recorded(summary);

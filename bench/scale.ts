@@ -1,0 +1,193 @@
+// `npm run bench:scale [-- 100k 1M 10M]`: the output stage at scale, on made-up results inserted straight into a
+// ledger (no solving): a full-factorial sweep of 5 frequencies × k conductivities × 4 grid resolutions × 500
+// receivers (100 k, 1 M, 10 M field rows = 200, 2,000, 20,000 jobs). Each size runs in child processes, so each peak
+// RSS (process.resourceUsage().maxRSS) is that stage's own: filling the ledger, the output stage
+// (runs.parquet, fields/, convergence.parquet, sensitivity.parquet), and `loamwave status`.
+// The numbers are invented (a 1/d fall with a frequency- and conductivity-dependent loss, and a resolution-dependent
+// error that shrinks with the grid): this measures time, memory and file sizes, not physics.
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { JobResult } from '../schemas/result.js';
+import { C0 } from '../solver/constants.js';
+import { SOLVER_VERSION } from '../solver/version.js';
+
+const HERE = dirname(fileURLToPath(import.meta.url));
+const RECEIVERS = 500;
+const FREQUENCIES = [16e3, 20e3, 24e3, 28e3, 32e3];
+const LEVELS = [8, 12, 16, 24];
+
+function sweepText(fieldRows: number): string {
+  const conductivities = Math.max(1, Math.round(fieldRows / (RECEIVERS * FREQUENCIES.length * LEVELS.length)));
+  const sigma = Array.from({ length: conductivities }, (_, k) => Number((1e-4 * 10 ** ((4 * k) / Math.max(1, conductivities - 1))).toPrecision(6)));
+  const ranges = Array.from({ length: RECEIVERS }, (_, k) => (k + 1) * 1000);
+  return [
+    '# made-up scale sweep (invented): results are inserted into the ledger, nothing is solved',
+    `name: scale-${fieldRows}`,
+    'base:',
+    '  frequency_hz: 20000',
+    '  ground: {model: impedance, segments: [{start_m: 0, conductivity_s_per_m: 0.01, relative_permittivity: 15}]}',
+    '  domain: {range_m: 510000, height_m: 60000}',
+    `  receivers: {ranges_m: [${ranges.join(', ')}]}`,
+    'vary:',
+    `  frequency_hz: {values: [${FREQUENCIES.join(', ')}]}`,
+    `  ground.segments[0].conductivity_s_per_m: {values: [${[...new Set(sigma)].join(', ')}]}`,
+    `  grid.cells_per_wavelength: {values: [${LEVELS.join(', ')}]}`,
+    'resolution_axis: grid.cells_per_wavelength',
+    '',
+  ].join('\n');
+}
+
+/** A made-up result for a job: the shape the worker returns, numbers invented. */
+function madeUpResult(jobId: string, frequencyHz: number, sigma: number, cpw: number, ranges: readonly number[]): JobResult {
+  const loss = 1e-5 * Math.sqrt(frequencyHz / 2e4) / Math.sqrt(sigma * 100 + 0.01);
+  const gridError = 3 / (cpw * cpw);
+  return {
+    solver_version: SOLVER_VERSION,
+    geometry: 'axisymmetric',
+    frequency_hz: frequencyHz,
+    receivers: ranges.map((r) => {
+      const db = 120 - 20 * Math.log10(r / 1000) - loss * r + gridError;
+      const amp = 10 ** (db / 20) * 1e-6;
+      const phaseDeg = ((((-360 * frequencyHz * r) / C0 - 0.001 * r * loss + gridError + 180) % 360) + 360) % 360 - 180;
+      const ph = (phaseDeg * Math.PI) / 180;
+      return {
+        range_m: r,
+        height_m: 0,
+        ez: { re: amp * Math.cos(ph), im: amp * Math.sin(ph) },
+        e_horizontal: { re: amp * 0.01, im: -amp * 0.02 },
+        h: { re: amp / 377, im: amp / 400 },
+        ez_db_uv_per_m: db,
+        ez_phase_deg: phaseDeg,
+      };
+    }),
+    grid: {
+      cell_size_m: C0 / frequencyHz / cpw,
+      time_step_s: 1e-6,
+      steps: 4000,
+      steps_per_period: 50,
+      cells_range: 1000,
+      cells_height: 100,
+      cells_ground: 0,
+      cells_total: 100000,
+      courant: 0.9,
+      memory_bytes: 4_000_000,
+      cell_updates: 4e8,
+      settled: true,
+      settling_change: 1e-5,
+    },
+    warnings: [],
+    job_id: jobId,
+    wall_time_s: 1.5,
+  };
+}
+
+async function childFill(dir: string): Promise<void> {
+  const { loadSweep } = await import('../coordinator/sweep/file.js');
+  const { expandSweep } = await import('../coordinator/sweep/expand.js');
+  const { Ledger } = await import('../coordinator/ledger/ledger.js');
+  const { sweep } = loadSweep(join(dir, 'sweep.yaml'));
+  const jobs = expandSweep(sweep, 'sweep.yaml');
+  const ledger = Ledger.open(dir);
+  ledger.addJobs(jobs);
+  const batch: JobResult[] = [];
+  for (const j of jobs) {
+    const p = j.params as Record<string, number>;
+    batch.push(madeUpResult(j.job_id, p.frequency_hz, p['ground.segments[0].conductivity_s_per_m'], p['grid.cells_per_wavelength'], j.case.receivers.ranges_m));
+    if (batch.length === 100) ledger.commitResults(batch.splice(0));
+  }
+  ledger.commitResults(batch);
+  ledger.close();
+}
+
+async function childOutputs(dir: string): Promise<void> {
+  const { loadSweep } = await import('../coordinator/sweep/file.js');
+  const { Ledger } = await import('../coordinator/ledger/ledger.js');
+  const { writeOutputs } = await import('../coordinator/outputs/tables.js');
+  const { sweep, text } = loadSweep(join(dir, 'sweep.yaml'));
+  const ledger = Ledger.open(dir);
+  const t0 = performance.now();
+  const summary = await writeOutputs(ledger, sweep, text, join(dir, 'out'));
+  const seconds = (performance.now() - t0) / 1000;
+  ledger.close();
+  process.stdout.write(JSON.stringify({ seconds, summary }) + '\n');
+}
+
+interface ChildRun {
+  seconds: number;
+  maxRssMiB: number;
+  stdout: string;
+}
+
+function child(args: string[]): ChildRun {
+  const t0 = performance.now();
+  // The child reports its own peak RSS on exit (kB in resourceUsage), after whatever it printed.
+  const r = spawnSync(process.execPath, [fileURLToPath(import.meta.url), ...args], { encoding: 'utf8', maxBuffer: 1 << 26 });
+  const seconds = (performance.now() - t0) / 1000;
+  if (r.status !== 0) throw new Error(`child ${args.join(' ')} failed (${r.status}): ${r.stderr}`);
+  const lines = r.stdout.trim().split('\n');
+  const rss = JSON.parse(lines.pop()!) as { maxRSSkB: number };
+  return { seconds, maxRssMiB: rss.maxRSSkB / 1024, stdout: lines.join('\n') };
+}
+
+function bytesUnder(path: string): number {
+  const s = statSync(path);
+  if (!s.isDirectory()) return s.size;
+  return readdirSync(path).reduce((n, f) => n + bytesUnder(join(path, f)), 0);
+}
+
+function statusChild(dir: string): ChildRun {
+  const cli = join(HERE, '..', '..', 'bin', 'loamwave.js');
+  const t0 = performance.now();
+  const r = spawnSync(process.execPath, [cli, 'status', join(dir, 'sweep.yaml'), '--out', dir, '--json'], { encoding: 'utf8' });
+  const seconds = (performance.now() - t0) / 1000;
+  if (r.status !== 0) throw new Error(`status failed (${r.status}): ${r.stderr}`);
+  return { seconds, maxRssMiB: Number.NaN, stdout: r.stdout };
+}
+
+const MiB = 2 ** 20;
+const fmt = (n: number, d = 1) => n.toFixed(d);
+
+async function parent(sizes: string[]): Promise<void> {
+  const parse = (s: string) => {
+    const m = /^(\d+(?:\.\d+)?)([kKmM]?)$/.exec(s);
+    if (!m) throw new Error(`bench:scale: size ${s}: give field rows as 100k, 1M or a number`);
+    return Math.round(Number(m[1]) * (m[2].toLowerCase() === 'k' ? 1e3 : m[2].toLowerCase() === 'm' ? 1e6 : 1));
+  };
+  console.log(`bench:scale, ${new Date().toISOString()}, node ${process.version}; targets: output stage peak RSS <= 1024 MiB, status <= 1 s at 20,000 jobs`);
+  for (const size of sizes.map(parse)) {
+    const dir = mkdtempSync(join(tmpdir(), 'loamwave-scale-'));
+    try {
+      writeFileSync(join(dir, 'sweep.yaml'), sweepText(size));
+      const fill = child(['--fill', dir]);
+      const ledgerBytes = bytesUnder(join(dir, 'ledger.sqlite'));
+      const out = child(['--outputs', dir]);
+      const { seconds, summary } = JSON.parse(out.stdout) as { seconds: number; summary: { runs: number; fieldRows: number; parts: number; convergenceRows: number | null; sensitivityRows: number | null } };
+      const o = join(dir, 'out');
+      const status = statusChild(dir);
+      console.log(
+        [
+          `${summary.fieldRows} field rows (${summary.runs} jobs x ${RECEIVERS} receivers):`,
+          `  ledger fill ${fmt(fill.seconds)} s; ledger ${fmt(ledgerBytes / MiB)} MiB = ${fmt(ledgerBytes / summary.fieldRows, 0)} bytes per field row`,
+          `  output stage ${fmt(seconds)} s (child ${fmt(out.seconds)} s), peak RSS ${fmt(out.maxRssMiB, 0)} MiB`,
+          `  runs.parquet ${fmt(bytesUnder(join(o, 'runs.parquet')) / MiB, 2)} MiB; fields/ ${fmt(bytesUnder(join(o, 'fields')) / MiB)} MiB in ${summary.parts} parts` +
+            ` (${fmt(bytesUnder(join(o, 'fields')) / summary.fieldRows, 1)} bytes per row)`,
+          `  convergence.parquet ${summary.convergenceRows} rows, ${fmt(bytesUnder(join(o, 'convergence.parquet')) / MiB, 2)} MiB; sensitivity.parquet ${summary.sensitivityRows} rows, ${fmt(bytesUnder(join(o, 'sensitivity.parquet')) / MiB, 2)} MiB`,
+          `  status ${fmt(status.seconds, 2)} s (whole command, node start-up included)`,
+        ].join('\n'),
+      );
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }
+}
+
+const [flag, arg] = process.argv.slice(2);
+if (flag === '--fill' || flag === '--outputs') {
+  await (flag === '--fill' ? childFill(arg) : childOutputs(arg));
+  process.stdout.write(JSON.stringify({ maxRSSkB: process.resourceUsage().maxRSS }) + '\n');
+} else {
+  await parent(process.argv.slice(2).length > 0 ? process.argv.slice(2) : ['100k', '1M']);
+}
