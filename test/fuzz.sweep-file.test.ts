@@ -27,7 +27,7 @@ const docs = sweeps.map((s) => parseYaml(s.text) as Json);
 
 /** Cases in memory and through the command line; fast-check's seed is printed with any failure to replay it. */
 const IN_MEMORY_RUNS = 4000;
-const CLI_RUNS = 300;
+const CLI_RUNS = Number(process.env.LOAMWAVE_FUZZ_CLI_RUNS ?? 300);
 /** Sweeps with more design points than this are parsed and counted but not expanded (time, not correctness). */
 const EXPAND_AT_MOST = 400;
 
@@ -102,11 +102,11 @@ describe('fuzzing the sweep file', () => {
               return;
             }
             seen.refused++;
-            expect(oneLineError(plan.err, basename(file))).toBeUndefined();
+            mustBeUndefined(oneLineError(plan.err, basename(file)), text);
             const out = join(dir, `out-${n}`);
             const run = await cli('run', file, '--out', out, '--workers', '1');
             expect(run.code).toBe(2);
-            expect(oneLineError(run.err, basename(file))).toBeUndefined();
+            mustBeUndefined(oneLineError(run.err, basename(file)), text);
             expect(existsSync(out)).toBe(false);
           },
         ),
@@ -137,6 +137,11 @@ describe('fuzzing the sweep file', () => {
     expect(checkOneLine(message, 'fuzz.yaml')).toBeUndefined();
   });
 });
+
+/** Fails with the whole problem and the input (an expect() message would be cut short). */
+function mustBeUndefined(problem: string | undefined, input: string): void {
+  if (problem !== undefined) throw new Error(`${problem}\ninput:\n${input}`);
+}
 
 /** `error: <file>: …` on one line, or what is wrong with it. */
 function oneLineError(stderr: string, file: string): string | undefined {
