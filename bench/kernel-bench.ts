@@ -28,7 +28,10 @@ const SIZES: readonly GridSize[] = [
   { name: 'large', nx: 4000, nz: 2000 }, // ≈ 450 MB: memory-bandwidth bound
 ];
 
-/** Cell updates per timed run: about 1 s of our kernel, 0.3 s of the native one; the whole bench takes under a minute. */
+/**
+ * Cell updates per timed run: about 1 s of our kernel, 0.3 s of the native one; five measurements on three grids at
+ * three repeats take about two minutes on a quiet machine (`--measures`, `--grids` and `--kernels-only` for less).
+ */
 const CELL_UPDATES_PER_RUN = 1.2e8;
 /** Steps run once before timing so the JIT has compiled the kernels (not counted). */
 const WARMUP_STEPS_SMALL_GRID = 200;
