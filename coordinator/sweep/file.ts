@@ -47,8 +47,9 @@ export function parseSweepText(text: string, source: string, ext = '.yaml'): unk
     }
   }
   // parseDocument collects errors and warnings instead of throwing or printing them (an unknown tag would otherwise
-  // go to stderr as a multi-line process warning); building the value can still fail on aliases.
-  const doc = parseDocument(text, { prettyErrors: true, uniqueKeys: true });
+  // go to stderr as a multi-line process warning), and logLevel 'error' keeps building the value from printing one
+  // (a key that is a collection becomes its text, which the schema then refuses); aliases can still fail.
+  const doc = parseDocument(text, { prettyErrors: true, uniqueKeys: true, });
   const problem = doc.errors[0] ?? doc.warnings[0];
   if (problem) {
     const at = problem.linePos?.[0];
