@@ -49,7 +49,7 @@ export function parseSweepText(text: string, source: string, ext = '.yaml'): unk
   // parseDocument collects errors and warnings instead of throwing or printing them (an unknown tag would otherwise
   // go to stderr as a multi-line process warning), and logLevel 'error' keeps building the value from printing one
   // (a key that is a collection becomes its text, which the schema then refuses); aliases can still fail.
-  const doc = parseDocument(text, { prettyErrors: true, uniqueKeys: true, });
+  const doc = parseDocument(text, { prettyErrors: true, uniqueKeys: true, logLevel: 'error' });
   const problem = doc.errors[0] ?? doc.warnings[0];
   if (problem) {
     const at = problem.linePos?.[0];
