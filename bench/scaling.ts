@@ -36,17 +36,26 @@ function median(xs: readonly number[]): number {
   return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 }
 
+interface Timed {
+  wallS: number;
+  /** CPU seconds of the whole process (all its threads) over wall seconds: 2 means both cores were ours. */
+  cpuShare: number;
+}
+
 /**
  * Wall seconds from handing `inputs` to a fresh pool of `threads` threads, in the given order, to the last result.
  * The pool's threads are started, and one warm-up case solved on each, before the clock starts.
  */
-async function timeOnPool(inputs: readonly CaseInput[], threads: number, warmUp: CaseInput): Promise<number> {
+async function timeOnPool(inputs: readonly CaseInput[], threads: number, warmUp: CaseInput): Promise<Timed> {
   const pool = new SolverPool({ threads });
   try {
     await Promise.all(Array.from({ length: threads }, (_, t) => pool.run(warmUp, `warm-up-${t}`)));
+    const cpu0 = process.cpuUsage();
     const t0 = performance.now();
     await Promise.all(inputs.map((input, j) => pool.run(input, `scaling-${j}`)));
-    return (performance.now() - t0) / 1000;
+    const wallS = (performance.now() - t0) / 1000;
+    const cpu = process.cpuUsage(cpu0);
+    return { wallS, cpuShare: (cpu.user + cpu.system) / 1e6 / wallS };
   } finally {
     await pool.close();
   }
@@ -73,6 +82,8 @@ interface EqualRound {
   oneThreadS: number;
   twoThreadsS: number;
   speedup: number;
+  cpuShareOne: number;
+  cpuShareTwo: number;
 }
 
 interface UnequalRound {
@@ -80,6 +91,7 @@ interface UnequalRound {
   lowerBoundS: number;
   makespanS: number;
   ratio: number;
+  cpuShareTwo: number;
 }
 
 interface ScalingReport {
@@ -128,14 +140,14 @@ async function main(): Promise<void> {
   for (let r = 0; r < opts.repeats; r++) {
     const one = await timeOnPool(equalInputs, 1, warmUp);
     const two = await timeOnPool(equalInputs, 2, warmUp);
-    equalRounds.push({ oneThreadS: one, twoThreadsS: two, speedup: one / two });
-    log(`  equal jobs, round ${r + 1}/${opts.repeats}: 1 thread ${one.toFixed(2)} s, 2 threads ${two.toFixed(2)} s`);
+    equalRounds.push({ oneThreadS: one.wallS, twoThreadsS: two.wallS, speedup: one.wallS / two.wallS, cpuShareOne: one.cpuShare, cpuShareTwo: two.cpuShare });
+    log(`  equal jobs, round ${r + 1}/${opts.repeats}: 1 thread ${one.wallS.toFixed(2)} s, 2 threads ${two.wallS.toFixed(2)} s`);
     const aloneS = await timeAlone(unequalInputs, warmUp);
     const made = await timeOnPool(unequalInputs, 2, warmUp);
     const total = aloneS.reduce((s, x) => s + x, 0);
     const lowerBoundS = Math.max(Math.max(...aloneS), total / 2);
-    unequalRounds.push({ aloneS, lowerBoundS, makespanS: made, ratio: made / lowerBoundS });
-    log(`  unequal jobs, round ${r + 1}/${opts.repeats}: bound ${lowerBoundS.toFixed(2)} s, makespan ${made.toFixed(2)} s`);
+    unequalRounds.push({ aloneS, lowerBoundS, makespanS: made.wallS, ratio: made.wallS / lowerBoundS, cpuShareTwo: made.cpuShare });
+    log(`  unequal jobs, round ${r + 1}/${opts.repeats}: bound ${lowerBoundS.toFixed(2)} s, makespan ${made.wallS.toFixed(2)} s`);
   }
   const speedups = equalRounds.map((x) => x.speedup);
   const ratios = unequalRounds.map((x) => x.ratio);
@@ -170,15 +182,18 @@ async function main(): Promise<void> {
   const out: string[] = [];
   out.push(`loamwave pool scaling benchmark, ${report.date}`);
   out.push(`node ${report.node}, ${report.cpu}; load average before ${loads(loadAverageBefore)}, after ${loads(report.loadAverageAfter)}`);
-  out.push(`${opts.repeats} alternations; each ratio within one alternation, median [smallest–largest]`);
+  out.push(`${opts.repeats} alternations; each ratio within one alternation, median [smallest–largest]; CPU share = the`);
+  out.push('process\'s CPU s (all threads) / wall s, median: 1 thread ≈ 1 and 2 threads ≈ 2 when the cores were ours');
   out.push('');
   const e = report.equal;
   out.push(`(a) ${EQUAL_RANGES_M.length} equal jobs (${EQUAL_RANGES_M[0] / 1000} km each): 1 thread ${median(equalRounds.map((x) => x.oneThreadS)).toFixed(2)} s, 2 threads ${median(equalRounds.map((x) => x.twoThreadsS)).toFixed(2)} s (medians)`);
   out.push(`    speed-up ${e.medianSpeedup.toFixed(2)}× [${e.speedupRange[0].toFixed(2)}–${e.speedupRange[1].toFixed(2)}]; target ${e.target}`);
+  out.push(`    CPU share 1 thread ${median(equalRounds.map((x) => x.cpuShareOne)).toFixed(2)}, 2 threads ${median(equalRounds.map((x) => x.cpuShareTwo)).toFixed(2)}`);
   const u = report.unequal;
   out.push(`(b) ${UNEQUAL_RANGES_M.length} unequal jobs, started longest first (${startOrder.map((x) => x / 1000).join(', ')} km):`);
   out.push(`    bound ${median(unequalRounds.map((x) => x.lowerBoundS)).toFixed(2)} s, makespan ${median(unequalRounds.map((x) => x.makespanS)).toFixed(2)} s (medians)`);
   out.push(`    makespan / bound ${u.medianRatio.toFixed(3)} [${u.ratioRange[0].toFixed(3)}–${u.ratioRange[1].toFixed(3)}]; target ${u.target}`);
+  out.push(`    CPU share on 2 threads ${median(unequalRounds.map((x) => x.cpuShareTwo)).toFixed(2)}`);
   process.stdout.write(out.join('\n') + '\n');
 }
 
