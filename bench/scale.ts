@@ -102,6 +102,26 @@ async function childFill(dir: string): Promise<void> {
   ledger.close();
 }
 
+/**
+ * A ledger of `jobs` jobs for timing `status` alone: three quarters done (with a one-receiver made-up result, enough
+ * for a count), one in twenty failed, the rest pending.
+ */
+async function childStatusLedger(dir: string): Promise<void> {
+  const { loadSweep } = await import('../coordinator/sweep/file.js');
+  const { expandSweep } = await import('../coordinator/sweep/expand.js');
+  const { Ledger } = await import('../coordinator/ledger/ledger.js');
+  const { sweep } = loadSweep(join(dir, 'sweep.yaml'));
+  const jobs = expandSweep(sweep, 'sweep.yaml');
+  const ledger = Ledger.open(dir);
+  ledger.addJobs(jobs);
+  const done = jobs.slice(0, Math.floor(jobs.length * 0.75));
+  for (let k = 0; k < done.length; k += 500) {
+    ledger.commitResults(done.slice(k, k + 500).map((j) => madeUpResult(j.job_id, 2e4, 0.01, 8, [1000])));
+  }
+  for (const j of jobs.slice(done.length, done.length + Math.floor(jobs.length / 20))) ledger.markFailed(j.job_id, 'made-up failure', 1);
+  ledger.close();
+}
+
 async function childOutputs(dir: string): Promise<void> {
   const { loadSweep } = await import('../coordinator/sweep/file.js');
   const { Ledger } = await import('../coordinator/ledger/ledger.js');
@@ -147,6 +167,13 @@ function statusChild(dir: string): ChildRun {
   return { seconds, maxRssMiB: Number.NaN, stdout: r.stdout };
 }
 
+/** Seconds of `loamwave --version`: the command line's own start-up, for comparison. */
+function versionTime(): number {
+  const t0 = performance.now();
+  spawnSync(process.execPath, [join(HERE, '..', '..', 'bin', 'loamwave.js'), '--version'], { encoding: 'utf8' });
+  return (performance.now() - t0) / 1000;
+}
+
 const MiB = 2 ** 20;
 const fmt = (n: number, d = 1) => n.toFixed(d);
 
@@ -157,6 +184,19 @@ async function parent(sizes: string[]): Promise<void> {
     return Math.round(Number(m[1]) * (m[2].toLowerCase() === 'k' ? 1e3 : m[2].toLowerCase() === 'm' ? 1e6 : 1));
   };
   console.log(`bench:scale, ${new Date().toISOString()}, node ${process.version}; targets: output stage peak RSS <= 1024 MiB, status <= 1 s at 20,000 jobs`);
+  {
+    // status at 20,000 jobs (the 10 M-row sweep's job count), on a ledger of jobs without their field rows.
+    const dir = mkdtempSync(join(tmpdir(), 'loamwave-scale-status-'));
+    try {
+      writeFileSync(join(dir, 'sweep.yaml'), sweepText(10_000_000));
+      child(['--status-ledger', dir]);
+      const times = [0, 1, 2].map(() => statusChild(dir).seconds).sort((a, b) => a - b);
+      const bare = [0, 1, 2].map(() => versionTime()).sort((a, b) => a - b);
+      console.log(`status at 20,000 jobs: ${fmt(times[1], 2)} s median of 3 (whole command; \`loamwave --version\` alone takes ${fmt(bare[1], 2)} s)`);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }
   for (const size of sizes.map(parse)) {
     const dir = mkdtempSync(join(tmpdir(), 'loamwave-scale-'));
     try {
@@ -185,8 +225,8 @@ async function parent(sizes: string[]): Promise<void> {
 }
 
 const [flag, arg] = process.argv.slice(2);
-if (flag === '--fill' || flag === '--outputs') {
-  await (flag === '--fill' ? childFill(arg) : childOutputs(arg));
+if (flag === '--fill' || flag === '--outputs' || flag === '--status-ledger') {
+  await (flag === '--fill' ? childFill(arg) : flag === '--outputs' ? childOutputs(arg) : childStatusLedger(arg));
   process.stdout.write(JSON.stringify({ maxRSSkB: process.resourceUsage().maxRSS }) + '\n');
 } else {
   await parent(process.argv.slice(2).length > 0 ? process.argv.slice(2) : ['100k', '1M']);

@@ -13,6 +13,8 @@ import { computeConvergenceOutOfCore, computeSensitivityOutOfCore } from '../ana
 import { openFieldReader, readReportFolder } from '../analysis/read-tables.js';
 import { SOLVER_VERSION } from '../../solver/version.js';
 
+const ROW_NUMBER = 'loamwave_row_number';
+
 /**
  * A table of a flat row schema, filled a batch of rows at a time into the store, then written as one Parquet
  * file; non-finite numbers become null where the schema allows null (and are an error where it does not).
@@ -27,7 +29,8 @@ export class RowTable {
 
   static async open(store: DuckTableStore, table: string, schema: z.ZodObject): Promise<RowTable> {
     const columns = columnsFromRowSchema(schema);
-    await store.createTable(table, columns);
+    // A row number, so the file keeps the order the rows were computed in (the store may reorder otherwise).
+    await store.createTable(table, [...columns, { name: ROW_NUMBER, type: 'INT64' }]);
     return new RowTable(store, table, columns);
   }
 
@@ -44,18 +47,18 @@ export class RowTable {
             out[c.name] = null;
           } else out[c.name] = v;
         }
-        appendRow(appender, this.columns, out);
+        out[ROW_NUMBER] = this.rows++;
+        appendRow(appender, [...this.columns, { name: ROW_NUMBER, type: 'INT64' }], out);
       }
       appender.flushSync();
     } finally {
       appender.closeSync();
     }
-    this.rows += rows.length;
   }
 
   /** Write the table to `path` (a temporary file beside it, renamed); returns its row count. */
   async write(path: string): Promise<number> {
-    await this.store.copyToParquet(`SELECT * FROM ${sqlName(this.table)}`, path);
+    await this.store.copyToParquet(`SELECT * EXCLUDE (${sqlName(ROW_NUMBER)}) FROM ${sqlName(this.table)} ORDER BY ${sqlName(ROW_NUMBER)}`, path);
     await this.store.conn.run(`DROP TABLE ${sqlName(this.table)}`);
     return this.rows;
   }

@@ -7,6 +7,7 @@ import { FieldRowSchema } from '../../schemas/table-rows.js';
 import { columnsFromRowSchema } from './columns.js';
 import { appendRow as appendRowTo, sqlName, sqlString, type CellValue, type ColumnSpec, type DuckTableStore } from './parquet.js';
 import type { ExpandedJob } from '../sweep/expand.js';
+import type { DuckDBAppender } from '@duckdb/node-api';
 
 /** A stored result as the ledger hands it over: its job and its JSON text. */
 export interface ResultText {
@@ -16,6 +17,9 @@ export interface ResultText {
 
 /** A parameter column of the fields table: its name and type, and where the job's value is. */
 export type ParamColumn = ColumnSpec & { path: string };
+
+/** Jobs appended between commits (about 5 MB of result text at 500 receivers; a Loamwave choice). */
+const FLUSH_EVERY_JOBS = 32;
 
 const COMPLEX_PARTS = /^(ez|e_horizontal|h)_(re|im)$/;
 
@@ -87,36 +91,57 @@ export async function writeFieldParts(
   params: readonly ParamColumn[],
   jobsPerPart: number,
   fieldsDir: string,
-  onlyParts?: ReadonlySet<number>,
 ): Promise<{ rows: number; parts: number[] }> {
   const raw = 'raw_results';
   const columns = rawColumns(params);
-  await store.createTable(raw, columns);
-  const appender = await store.appender(raw);
-  const parts = new Set<number>();
+  // One partition at a time (results come in index order, so a partition's jobs arrive together): its result
+  // texts go into the raw table, are copied out as Parquet, and the table is emptied before the next one.
+  const filesOf = new Map<number, number>();
+  let rows = 0;
+  let current: number | null = null;
+  let appender: DuckDBAppender | null = null;
+  let appended = 0;
+  const finishPart = async () => {
+    if (current === null || appender === null) return;
+    appender.flushSync();
+    appender.closeSync();
+    appender = null;
+    const dir = join(fieldsDir, `part=${current}`);
+    mkdirSync(dir, { recursive: true });
+    // A partition met again (a ledger shared with another sweep may hold the jobs in another order) gets a
+    // second file in its folder: readers of the Hive-partitioned table read every file of a folder.
+    const n = filesOf.get(current) ?? 0;
+    filesOf.set(current, n + 1);
+    rows += await store.copyToParquet(fieldSelect(raw, params, 'true'), join(dir, n === 0 ? 'data.parquet' : `data-${n}.parquet`));
+  };
   try {
     for (const { job_id, result_json } of results) {
       const job = byId.get(job_id);
       if (!job) continue;
       const part = Math.floor(job.index / jobsPerPart);
-      if (onlyParts && !onlyParts.has(part)) continue;
-      parts.add(part);
+      if (part !== current) {
+        await finishPart();
+        current = part;
+        await store.createTable(raw, columns);
+        appender = await store.appender(raw);
+      }
       const row: Record<string, CellValue> = { part, job_id, idx: job.index, result: negativeZeroAsDouble(result_json) };
       params.forEach((p, k) => (row[`p${k}`] = paramCell(job, p)));
-      appendRowTo(appender, columns, row);
+      appendRowTo(appender!, columns, row);
+      // Commit every few jobs: an open append is held in memory until committed.
+      if (++appended % FLUSH_EVERY_JOBS === 0) appender!.flushSync();
     }
-    appender.flushSync();
+    await finishPart();
   } finally {
-    appender.closeSync();
+    (appender as DuckDBAppender | null)?.closeSync();
   }
-  const list = [...parts].sort((a, b) => a - b);
-  let rows = 0;
-  const targets = list.length > 0 ? list : onlyParts ? [] : [0];
-  for (const part of targets) {
-    const dir = join(fieldsDir, `part=${part}`);
-    mkdirSync(dir, { recursive: true });
-    rows += await store.copyToParquet(fieldSelect(raw, params, list.length > 0 ? `part = ${part}` : 'false'), join(dir, 'data.parquet'));
+  if (filesOf.size === 0) {
+    // No result yet: one empty partition keeps `read_parquet('fields/**\/*.parquet')` valid (zero rows).
+    await store.createTable(raw, columns);
+    mkdirSync(join(fieldsDir, 'part=0'), { recursive: true });
+    await store.copyToParquet(fieldSelect(raw, params, 'false'), join(fieldsDir, 'part=0', 'data.parquet'));
+    filesOf.set(0, 1);
   }
-  await store.conn.run(`DROP TABLE ${sqlName(raw)}`);
-  return { rows, parts: targets };
+  await store.conn.run(`DROP TABLE IF EXISTS ${sqlName(raw)}`);
+  return { rows, parts: [...filesOf.keys()].sort((a, b) => a - b) };
 }

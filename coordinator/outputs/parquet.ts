@@ -162,8 +162,8 @@ export class DuckTableStore {
     const db = await DuckDBInstance.create(join(dir, 'work.duckdb'), {
       memory_limit: options.memoryLimit ?? '384MB',
       temp_directory: join(dir, 'spill'),
-      // Parquet files are written in the order the rows were appended (the fields stay in job order).
-      preserve_insertion_order: 'true',
+      // Every query that writes a file orders its rows; not keeping insertion order lets DuckDB spill more freely.
+      preserve_insertion_order: 'false',
     });
     return new DuckTableStore(db, await db.connect(), dir);
   }

@@ -14,7 +14,9 @@ import { columnsFromRowSchema } from './columns.js';
 import { sweepDigest, writeOutputState } from './state.js';
 import { SOLVER_VERSION } from '../../solver/version.js';
 import { ANALYSIS_FILES, writeAnalysisTables } from './analysis-tables.js';
-import { DuckTableStore, ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
+import { DuckTableStore, firstLine, ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
+import { UserError } from '../../schemas/errors.js';
+import { ExitCode } from '../../schemas/exit-codes.js';
 import { writeFieldParts } from './fields.js';
 import { expandSweep, type ExpandedJob } from '../sweep/expand.js';
 
@@ -209,9 +211,27 @@ export async function writeOutputs(
     summary.convergenceRows = analysis.convergence;
     summary.sensitivityRows = analysis.sensitivity;
     return recorded(summary);
+  } catch (e) {
+    throw diskFull(e, outDir) ?? e;
   } finally {
     rmSync(staging, { recursive: true, force: true });
   }
+}
+
+/**
+ * A write that failed for want of space (ENOSPC, a quota, DuckDB's "No space left on device") as one line: the
+ * tables in place are the previous ones (every file is renamed in only once complete), and the ledger keeps every
+ * result, so freeing space and rerunning is all it takes.
+ */
+function diskFull(e: unknown, outDir: string): UserError | undefined {
+  const code = (e as NodeJS.ErrnoException)?.code;
+  const line = firstLine(e);
+  if (code !== 'ENOSPC' && code !== 'EDQUOT' && !/no space left|disk is full|ENOSPC|quota exceeded/i.test(line)) return undefined;
+  return new UserError(
+    `${outDir}: outputs not written, the disk is full (${line}); the previous tables are unchanged and the ledger keeps every result: free some space and run again`,
+    'loamwave.outputs.disk-full',
+    ExitCode.internalError,
+  );
 }
 
 /**
