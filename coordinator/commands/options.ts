@@ -49,3 +49,11 @@ export function addQueueOptions(cmd: Command, how: { required: boolean; fromEnv?
   cmd.addOption(new Option('--prefix <prefix>', 'prefix of every Redis key of the queue').default(DEFAULT_QUEUE_PREFIX));
   return cmd;
 }
+
+export const RETRY_FAILED_HELP = 'solve again the jobs that failed in an earlier run (after fixing what made them fail)';
+
+/** `--retry-failed`: the ledger's failed jobs become pending again; says how many on stderr. */
+export function retryFailedJobs(run: { ledger: { retryFailed(): number } }): void {
+  const n = run.ledger.retryFailed();
+  process.stderr.write(`${n} failed job(s) to try again\n`);
+}

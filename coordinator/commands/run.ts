@@ -8,7 +8,7 @@ import { Option, type Command } from 'commander';
 import { ExitCode } from '../../schemas/exit-codes.js';
 import type { LocalDispatchSummary } from '../dispatch/local-pool.js';
 import type { SweepRun } from '../ledger/sweep-run.js';
-import { addQueueOptions, integerOption, memoryOption, mibToBytes, type QueueCliOptions } from './options.js';
+import { addQueueOptions, integerOption, memoryOption, mibToBytes, RETRY_FAILED_HELP, retryFailedJobs, type QueueCliOptions } from './options.js';
 import { finishOutputs } from './finish-outputs.js';
 
 interface RunCliOptions extends QueueCliOptions {
@@ -17,6 +17,7 @@ interface RunCliOptions extends QueueCliOptions {
   maxMemoryMib?: number;
   json?: boolean;
   report?: boolean;
+  retryFailed?: boolean;
 }
 
 export function registerRun(program: Command): void {
@@ -32,6 +33,7 @@ export function registerRun(program: Command): void {
     )
     .addOption(memoryOption(' / workers'))
     .option('--no-report', 'write the tables but not report.html')
+    .option('--retry-failed', RETRY_FAILED_HELP)
     .option('--json', 'print a summary as JSON on stdout');
   addQueueOptions(cmd, { required: false, what: 'submit to this queue and collect what the workers return' });
   cmd.action(async (sweepPath: string, opts: RunCliOptions) => {
@@ -39,6 +41,7 @@ export function registerRun(program: Command): void {
     if (opts.redis) {
       const { queueSession, withQueue } = await import('../queue/session.js');
       await withQueue(sweepPath, opts, async (run, handles) => {
+        if (opts.retryFailed) retryFailedJobs(run);
         const r = await queueSession(run, handles, { submit: true, follow: true, progress: true });
         await finish(run, { stopped: r.stopped, solvedNow: r.collected.committed, solverCalls: null }, opts, started);
       });
@@ -49,6 +52,7 @@ export function registerRun(program: Command): void {
     const maxMemoryBytes = opts.maxMemoryMib === undefined ? defaultMemoryCapBytes(opts.workers) : mibToBytes(opts.maxMemoryMib);
     const run = openSweepRun(sweepPath, opts.out, { maxMemoryBytes });
     try {
+      if (opts.retryFailed) retryFailedJobs(run);
       await finish(run, await runEmbedded(run, opts), opts, started);
     } finally {
       run.ledger.close();

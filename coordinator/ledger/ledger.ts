@@ -157,6 +157,7 @@ export class Ledger {
       ),
       exists: db.prepare<[string], { status: JobStatus }>(`SELECT status FROM jobs WHERE job_id = ?`),
       reset: db.prepare(`UPDATE jobs SET status = 'pending' WHERE status = 'running'`),
+      retryFailed: db.prepare(`UPDATE jobs SET status = 'pending', error = NULL, attempts = 0, finished_at_ms = NULL WHERE status = 'failed'`),
       resetQueued: db.prepare(`UPDATE jobs SET status = 'pending' WHERE status IN ('running', 'queued')`),
       result: db.prepare<[string], { result_json: string }>(`SELECT result_json FROM results WHERE job_id = ?`),
       textsPage: db.prepare<[number, number, string, number], { job_id: string; idx: number; result_json: string }>(
@@ -269,6 +270,11 @@ export class Ledger {
    */
   resetInterrupted(options: { includeQueued?: boolean } = {}): number {
     return (options.includeQueued ? this.stmt.resetQueued : this.stmt.reset).run().changes;
+  }
+
+  /** Failed jobs go back to `pending` with their tries and reason cleared, to be solved again. Returns how many. */
+  retryFailed(): number {
+    return this.stmt.retryFailed.run().changes;
   }
 
   /** The stored result of one job, if any. */
