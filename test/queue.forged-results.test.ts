@@ -15,7 +15,8 @@ import { jobIdFor } from '../coordinator/sweep/job-id.js';
 import type { Case } from '../schemas/case.js';
 import type { JobResult } from '../schemas/result.js';
 import { redisOptions } from '../worker/redis-connection.js';
-import { resultHmac, sealResult } from '../worker/result-seal.js';
+import { RESULT_KEY_ENV, resultHmac, sealResult } from '../worker/result-seal.js';
+import { ExitCode } from '../schemas/exit-codes.js';
 import { runCase } from '../worker/run-case.js';
 import { until } from './helpers/cli-process.js';
 import { closeWithin, queueFixture } from './helpers/queue-fixture.js';
@@ -147,4 +148,40 @@ describe('forged and stray results', () => {
     const want = createHmac('sha256', KEY).update('{"a":[1,2.5],"b":"x"}', 'utf8').digest('hex');
     expect(resultHmac({ b: 'x', a: [1, 2.5] }, KEY)).toBe(want);
   });
+});
+
+describe('the shared key through the command line', () => {
+  const cli = queueFixture('sealed');
+
+  it.each<[string, string, RegExp]>([
+    ['the same key', KEY, /"counts":\{[^}]*"done":1/],
+    ['another key', OTHER_KEY, /refused result of job [0-9a-f]{64}: HMAC does not verify/],
+  ])('when the worker and the collector are given %s in LOAMWAVE_RESULT_KEY then the result is accepted only with the same key', async (what, collectorKey, expected) => {
+    const exit = what === 'the same key' ? 'same' : 'other';
+    const name = `yelquandor-sealed-${exit}`;
+    const sweepPath = join(cli.scratch, `${name}.json`);
+    writeFileSync(sweepPath, JSON.stringify({ name, base }));
+    const prefix = cli.newPrefix('sealed');
+    const q = cli.queueArgs(prefix);
+    const out = join(cli.scratch, `out-${exit}`);
+    const saved = process.env[RESULT_KEY_ENV];
+    try {
+      // Children take the environment at spawn: the worker gets KEY, the collector `collectorKey`.
+      process.env[RESULT_KEY_ENV] = KEY;
+      expect((await cli.run(['submit', sweepPath, '--out', out, ...q])).code).toBe(ExitCode.done);
+      const worker = cli.start(['worker', ...q, '--sweep', name]);
+      process.env[RESULT_KEY_ENV] = collectorKey;
+      const collected = await cli.run(['collect', sweepPath, '--out', out, '--follow', '--json', '--no-report', ...q]);
+      // collect --follow completes either way (a refused job is a failed job) and exits by itself.
+      expect(collected.code, collected.stderr).toBe(ExitCode.done);
+      expect(collected.stdout + collected.stderr).toMatch(expected);
+      const counts = JSON.parse(collected.stdout).counts;
+      expect(counts).toMatchObject(what === 'the same key' ? { done: 1, failed: 0 } : { done: 0, failed: 1 });
+      worker.child.kill('SIGTERM');
+      expect((await worker.exited).code).toBe(ExitCode.done);
+    } finally {
+      if (saved === undefined) delete process.env[RESULT_KEY_ENV];
+      else process.env[RESULT_KEY_ENV] = saved;
+    }
+  }, 60_000);
 });
