@@ -61,6 +61,8 @@ CREATE TABLE IF NOT EXISTS jobs (
 );
 CREATE INDEX IF NOT EXISTS jobs_by_status ON jobs (status, idx);
 CREATE INDEX IF NOT EXISTS jobs_by_idx ON jobs (idx, job_id);
+-- status's recent finishes without a scan of the job rows (which hold each case's JSON).
+CREATE INDEX IF NOT EXISTS jobs_by_finish ON jobs (finished_at_ms, status);
 CREATE TABLE IF NOT EXISTS results (
   job_id TEXT PRIMARY KEY REFERENCES jobs (job_id),
   result_json TEXT NOT NULL
@@ -167,10 +169,10 @@ export class Ledger {
       ),
       total: db.prepare<[], { n: number }>(`SELECT COUNT(*) AS n FROM jobs`),
       finishedSince: db.prepare<[number], { t: number }>(
-        `SELECT finished_at_ms AS t FROM jobs WHERE status IN ('done', 'failed') AND finished_at_ms >= ?`,
+        `SELECT finished_at_ms AS t FROM jobs INDEXED BY jobs_by_finish WHERE finished_at_ms >= ? AND status IN ('done', 'failed')`,
       ),
       firstFailures: db.prepare<[number], { job_id: string; error: string | null }>(
-        `SELECT job_id, error FROM jobs WHERE status = 'failed' ORDER BY idx, job_id LIMIT ?`,
+        `SELECT job_id, error FROM jobs INDEXED BY jobs_by_status WHERE status = 'failed' ORDER BY idx, job_id LIMIT ?`,
       ),
       resultsPage: db.prepare<[number, number, string, number], JobRow & { result_json: string }>(
         `SELECT jobs.*, results.result_json FROM jobs JOIN results USING (job_id)

@@ -133,7 +133,7 @@ export function sqlName(name: string): string {
 const DUCK_TYPES: Record<ColumnType, string> = { DOUBLE: 'DOUBLE', INT64: 'BIGINT', UTF8: 'VARCHAR', BOOLEAN: 'BOOLEAN' };
 
 export interface DuckStoreOptions {
-  /** DuckDB's memory limit (it spills to `dir` beyond it). @defaultValue '384MB' (a Loamwave choice: the output stage stays under 1 GiB) */
+  /** DuckDB's memory limit (it spills to `dir` beyond it). @defaultValue '640MB' (a Loamwave choice: with Node's own few hundred MB the output stage stays under 1 GiB; 384MB ran out unnesting a 250,000-row partition) */
   readonly memoryLimit?: string;
 }
 
@@ -160,7 +160,7 @@ export class DuckTableStore {
   /** Open a store whose files live in `dir` (created by DuckDB; removed by close). */
   static async open(dir: string, options: DuckStoreOptions = {}): Promise<DuckTableStore> {
     const db = await DuckDBInstance.create(join(dir, 'work.duckdb'), {
-      memory_limit: options.memoryLimit ?? '384MB',
+      memory_limit: options.memoryLimit ?? '640MB',
       temp_directory: join(dir, 'spill'),
       // Every query that writes a file orders its rows; not keeping insertion order lets DuckDB spill more freely.
       preserve_insertion_order: 'false',
