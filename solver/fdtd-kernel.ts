@@ -516,6 +516,69 @@ function eRows(f: YeeFields, i: number, k0: number, k1: number): void {
   }
 }
 
+/** Far-side CPML of column i = ix0 + j, H part: ψ ← bψ + a·∂Ez, Hy += chx·ψ (Roden & Gedney 2000). */
+function hCpmlFarColumn(f: YeeFields, p: CpmlState, j: number): void {
+  const { nz, S, ez, hy, chx } = f;
+  const base = (p.ix0 + j) * S;
+  const pbase = j * S;
+  const { psiHx } = p;
+  const bj = p.bHx[j];
+  const aj = p.aHx[j];
+  for (let k = 0; k < nz; k++) {
+    const ik = base + k;
+    const psi = bj * psiHx[pbase + k] + aj * (ez[ik + S] - ez[ik]);
+    psiHx[pbase + k] = psi;
+    hy[ik] += chx * psi;
+  }
+}
+
+/** Top CPML of column i, H part: ψ ← bψ + a·∂Ex, Hy −= chz·ψ. */
+function hCpmlTopColumn(f: YeeFields, p: CpmlState, i: number): void {
+  const { S, ex, hy, chz } = f;
+  const { kz0, pz, bHz, aHz, psiHz } = p;
+  const base = i * S + kz0;
+  const pbase = i * pz;
+  for (let j = 0; j < pz; j++) {
+    const ik = base + j;
+    const psi = bHz[j] * psiHz[pbase + j] + aHz[j] * (ex[ik + 1] - ex[ik]);
+    psiHz[pbase + j] = psi;
+    hy[ik] -= chz[kz0 + j] * psi;
+  }
+}
+
+/** Far-side CPML of column i = ix0 + j ≥ 1, E part: ψ ← bψ + a·∂Hy, Ez += cbEz·ψ. */
+function eCpmlFarColumn(f: YeeFields, p: CpmlState, j: number): void {
+  const { nz, S, ez, hy, cbEz, colEz } = f;
+  const i = p.ix0 + j;
+  const base = i * S;
+  const oEz = colEz[i] - base;
+  const pbase = j * S;
+  const { psiEz } = p;
+  const bj = p.bEz[j];
+  const aj = p.aEz[j];
+  for (let k = 0; k < nz; k++) {
+    const ik = base + k;
+    const psi = bj * psiEz[pbase + k] + aj * (hy[ik] - hy[ik - S]);
+    psiEz[pbase + k] = psi;
+    ez[ik] += cbEz[ik + oEz] * psi;
+  }
+}
+
+/** Top CPML of column i, E part: ψ ← bψ + a·∂Hy, Ex += cbEx·ψ (the ground row k = 0 excluded). */
+function eCpmlTopColumn(f: YeeFields, p: CpmlState, i: number): void {
+  const { S, ex, hy, cbEx, colEx } = f;
+  const { kz0, pz, bEx, aEx, psiEx } = p;
+  const base = i * S + kz0;
+  const oEx = colEx[i] - i * S;
+  const pbase = i * pz;
+  for (let j = kz0 < 1 ? 1 - kz0 : 0; j < pz; j++) {
+    const ik = base + j;
+    const psi = bEx[j] * psiEx[pbase + j] + aEx[j] * (hy[ik - 1] - hy[ik]);
+    psiEx[pbase + j] = psi;
+    ex[ik] += cbEx[ik + oEx] * psi;
+  }
+}
+
 /**
  * H, then Ex and Ez, of rows [k0, k1) of column i ≥ 1 in one pass (k0 ≥ 2: the rows below are final), with the
  * coefficient arrays: Yee's updates (Taflove & Hagness 2005, ch. 3) cell by cell, each written as in
@@ -628,14 +691,15 @@ function fusedFreeRows(f: YeeFields, i: number, k0: number, k1: number, cbEx0: n
 /**
  * One leapfrog step, E^n → H^{n+½} → E^{n+1}: the same numbers as
  *   updateH(f); if (p) updateHCpml(f, p); if (z) applySurfaceImpedance(f, z); updateE(f); if (p) updateECpml(f, p)
- * The columns before the far-side layer, below the top layer, go in one sweep (see the section comment above);
- * the layers, an L of columns ix0… and rows kz0…, then take the five updates in turn. The sweep leaves E of the L
- * untouched, which the L's H needs, and finishes H below kz0 and before ix0, which the L's E needs. The
- * coefficient arrays must not be changed in place between steps.
+ * The columns before the far-side layer go in one sweep (see the section comment above), each finishing its rows
+ * inside the top layer while they are in cache; the far-side layer's columns then take the five updates in turn.
+ * The sweep leaves E of the far layer untouched, which its H needs, and finishes H before it, which its E needs.
+ * The coefficient arrays must not be changed in place between steps.
  */
 export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): void {
   const { nx, nz } = f;
-  const kTop = p && p.pz > 0 ? p.kz0 : nz;
+  const pz = p ? p.pz : 0;
+  const kTop = pz > 0 ? p!.kz0 : nz;
   const ix0 = p && p.px > 0 ? p.ix0 : nx;
   if (kTop < 2 || ix0 < 1) {
     // a top layer down to the ground rows, or a far layer from the axis: nothing to sweep
@@ -648,27 +712,38 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
   }
   const { lo, hi, cbEx0, cbEz0, chz0 } = freeSpacePlan(f, kTop);
   const head = Math.min(2, nz);
-  // the axis column, rows below the top layer, update after update
-  hRows(f, 0, 0, kTop);
-  if (z) surfaceImpedanceColumn(f, z, 0);
-  eRows(f, 0, 0, kTop);
-  for (let i = 1; i < ix0; i++) {
-    // rows 0 and 1: H, the ground row's Ex (which needs H of both), then E
-    hRows(f, i, 0, head);
-    if (z) surfaceImpedanceColumn(f, z, i);
-    eRows(f, i, 0, head);
-    // rows 2 … kTop−1 in one pass per row, free-space rows with constant coefficients
-    fusedRows(f, i, 2, lo[i]);
-    fusedFreeRows(f, i, lo[i], hi[i], cbEx0, cbEz0, chz0);
-    fusedRows(f, i, hi[i], kTop);
+  for (let i = 0; i < ix0; i++) {
+    if (i === 0) {
+      // the axis column, rows below the top layer, update after update
+      hRows(f, 0, 0, kTop);
+      if (z) surfaceImpedanceColumn(f, z, 0);
+      eRows(f, 0, 0, kTop);
+    } else {
+      // rows 0 and 1: H, the ground row's Ex (which needs H of both), then E
+      hRows(f, i, 0, head);
+      if (z) surfaceImpedanceColumn(f, z, i);
+      eRows(f, i, 0, head);
+      // rows 2 … kTop−1 in one pass per row, free-space rows with constant coefficients
+      fusedRows(f, i, 2, lo[i]);
+      fusedFreeRows(f, i, lo[i], hi[i], cbEx0, cbEz0, chz0);
+      fusedRows(f, i, hi[i], kTop);
+    }
+    if (pz > 0) {
+      // the column's rows in the top layer: H, its CPML term, E, E's CPML term
+      updateH(f, i, i + 1, kTop);
+      hCpmlTopColumn(f, p!, i);
+      updateE(f, i, i + 1, kTop);
+      eCpmlTopColumn(f, p!, i);
+    }
   }
-  if (!p) return;
-  // the layers: H of the L, its CPML terms (both layers whole), the ground row under the far layer, E, E's terms
-  updateH(f, 0, ix0, kTop);
+  if (ix0 === nx) return;
+  // the far-side layer's columns, update after update (CPML terms: the far layer's, then the top layer's)
+  const q = p!;
   updateH(f, ix0, nx, 0);
-  updateHCpml(f, p);
+  for (let j = 0; j < q.px; j++) hCpmlFarColumn(f, q, j);
+  if (pz > 0) for (let i = ix0; i < nx; i++) hCpmlTopColumn(f, q, i);
   if (z) for (let i = ix0; i < nx; i++) surfaceImpedanceColumn(f, z, i);
-  updateE(f, 0, ix0, kTop);
   updateE(f, ix0, nx, 0);
-  updateECpml(f, p);
+  for (let j = 0; j < q.px; j++) if (ix0 + j >= 1) eCpmlFarColumn(f, q, j);
+  if (pz > 0) for (let i = ix0; i < nx; i++) eCpmlTopColumn(f, q, i);
 }
