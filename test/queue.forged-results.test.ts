@@ -172,8 +172,9 @@ describe('the shared key through the command line', () => {
       const worker = cli.start(['worker', ...q, '--sweep', name]);
       process.env[RESULT_KEY_ENV] = collectorKey;
       const collected = await cli.run(['collect', sweepPath, '--out', out, '--follow', '--json', '--no-report', ...q]);
-      // collect --follow completes either way (a refused job is a failed job) and exits by itself.
-      expect(collected.code, collected.stderr).toBe(ExitCode.done);
+      // collect --follow completes either way (a refused job is a failed job) and exits by itself: 0 when all is
+      // done, 1 (some jobs failed) when the result was refused.
+      expect(collected.code, collected.stderr).toBe(what === 'the same key' ? ExitCode.done : ExitCode.jobsFailed);
       expect(collected.stdout + collected.stderr).toMatch(expected);
       const counts = JSON.parse(collected.stdout).counts;
       expect(counts).toMatchObject(what === 'the same key' ? { done: 1, failed: 0 } : { done: 0, failed: 1 });

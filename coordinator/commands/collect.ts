@@ -39,6 +39,11 @@ export function registerCollect(program: Command): void {
         );
       }
       if (r.stopped) process.exitCode = ExitCode.stopped;
+      else if (r.complete && counts.failed > 0) {
+        // as `run`: the outputs are written, and the exit code says that some jobs failed
+        process.stderr.write(`error: ${counts.failed} job(s) failed; their reasons are in the error column of runs.parquet (and \`loamwave status\`)\n`);
+        process.exitCode = ExitCode.jobsFailed;
+      }
     });
   });
 }
