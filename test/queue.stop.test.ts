@@ -10,7 +10,7 @@ const fx = queueFixture('stop');
 
 describe('run --redis stopped with Ctrl-C', () => {
   it('when the coordinator gets SIGINT then it exits 130, the jobs stay queued, and collect finishes them later', async () => {
-    const name = 'ashby-stop';
+    const name = 'quiet-stop';
     const sweep = join(fx.scratch, `${name}.json`);
     writeFileSync(
       sweep,

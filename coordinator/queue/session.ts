@@ -52,6 +52,31 @@ export async function queueSession(
   handles: QueueHandles,
   how: { submit: boolean; follow: boolean; progress: boolean },
 ): Promise<QueueSessionResult> {
+  // Following: Ctrl-C and SIGTERM are taken from the start, so a signal while the jobs are being queued also
+  // stops cleanly (the jobs stay queued) instead of killing the process mid-submit.
+  const stop = new AbortController();
+  const dispose = how.follow
+    ? onStopSignals(
+        () => {
+          process.stderr.write('\nstopping: the jobs stay queued for the workers; run the same command again to go on collecting\n');
+          stop.abort();
+        },
+        () => stop.abort(),
+      )
+    : () => undefined;
+  try {
+    return await session(run, handles, how, stop.signal);
+  } finally {
+    dispose();
+  }
+}
+
+async function session(
+  run: SweepRun,
+  handles: QueueHandles,
+  how: { submit: boolean; follow: boolean; progress: boolean },
+  signal: AbortSignal,
+): Promise<QueueSessionResult> {
   const { ledger } = run;
   let submitted: SubmitSummary | undefined;
   if (how.submit) {
@@ -76,32 +101,19 @@ export async function queueSession(
 
   const progress = new SweepProgress(ledger, run.costById);
   const bar = how.progress ? new ProgressBar({ stream: process.stderr }) : undefined;
-  const stop = new AbortController();
-  const dispose = onStopSignals(
-    () => {
-      process.stderr.write('\nstopping: the jobs stay queued for the workers; run the same command again to go on collecting\n');
-      stop.abort();
+  const complete = await followCollection(handles, ledger, {
+    signal,
+    onRound: async (s) => {
+      add(s);
+      if (!bar) return;
+      for (const id of s.finishedIds) progress.finished(id);
+      bar.update(progress.state(await activeProgress(handles)));
     },
-    () => stop.abort(),
-  );
-  let complete: boolean;
-  try {
-    complete = await followCollection(handles, ledger, {
-      signal: stop.signal,
-      onRound: async (s) => {
-        add(s);
-        if (!bar) return;
-        for (const id of s.finishedIds) progress.finished(id);
-        bar.update(progress.state(await activeProgress(handles)));
-      },
-      onLost: async (missing) => {
-        process.stderr.write(`warning: Redis holds none of the ${missing} outstanding job(s) (restarted without persistence?); queueing them again\n`);
-        await submitSweep(handles, ledger, run.costById);
-      },
-    });
-  } finally {
-    dispose();
-  }
+    onLost: async (missing) => {
+      process.stderr.write(`warning: Redis holds none of the ${missing} outstanding job(s) (restarted without persistence?); queueing them again\n`);
+      await submitSweep(handles, ledger, run.costById);
+    },
+  });
   bar?.finish(progress.state(new Map()));
   if (complete) await retireQueue(handles);
   reportRefusals(totals.refused);
