@@ -2,6 +2,8 @@
 // bench/large-sweep-tables.ts (2,000 runs × 500 receivers) through assembleReportData and buildReportHtml, the page
 // written to a temporary folder and opened in Debian's /usr/bin/chromium (headless, through playwright-core).
 // Targets: report.html ≤ 5 MB and the page's 'load' event ≤ 3 s. Prints one line per measure, or --json.
+// The same tables are also written as an output folder (bench/report-folder.ts) and `loamwave report`'s build is
+// timed on it in a child process, whose peak RSS is printed.
 // Run with `npm run bench:report`. Times are wall clock on whatever machine runs it; the load time is the median of
 // three fresh pages, after one page to warm the browser.
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
@@ -12,6 +14,7 @@ import { chromium } from 'playwright-core';
 import { assembleReportData } from '../coordinator/report/assembly.js';
 import { buildReportHtml } from '../coordinator/report/html.js';
 import { largeSweepTables } from './large-sweep-tables.js';
+import { buildReportInChild, writeReportFolder } from './report-folder.js';
 
 /** The targets the report must meet for any sweep size (the bench reports against them). */
 export const REPORT_TARGETS = { maxBytes: 5 * 1024 * 1024, maxLoadS: 3 } as const;
@@ -26,6 +29,9 @@ export interface ReportSizeResult {
   /** Median seconds from navigation to the page's 'load' event over `loads` fresh pages. */
   loadS: number;
   loads: number[];
+  /** `loamwave report` on the same tables written as an output folder, in a child process: seconds and peak RSS, bytes. */
+  folderBuildS: number;
+  folderPeakRssBytes: number;
 }
 
 function median(xs: readonly number[]): number {
@@ -48,6 +54,10 @@ export async function measureReportSize(loads = 3): Promise<ReportSizeResult> {
   const dir = mkdtempSync(join(tmpdir(), 'loamwave-report-bench-'));
   const file = join(dir, 'report.html');
   writeFileSync(file, html);
+  // The report stage as the command runs it (Parquet read, assembly, page), alone in a child process.
+  const folder = join(dir, 'folder');
+  await writeReportFolder(folder, tables);
+  const child = buildReportInChild(folder);
   const browser = await chromium.launch({
     executablePath: '/usr/bin/chromium',
     args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
@@ -71,6 +81,8 @@ export async function measureReportSize(loads = 3): Promise<ReportSizeResult> {
       buildHtmlS,
       loadS: median(times),
       loads: times,
+      folderBuildS: child.buildS,
+      folderPeakRssBytes: child.peakRssBytes,
     };
   } finally {
     await browser.close();
@@ -91,6 +103,8 @@ async function main(): Promise<void> {
       `report of ${r.runs} runs × ${r.receivers} receivers (made-up numbers)`,
       `size:        ${mb.toFixed(2)} MiB (target ≤ ${REPORT_TARGETS.maxBytes / 1024 / 1024} MiB: ${mark(r.bytes <= REPORT_TARGETS.maxBytes)})`,
       `build:       ${(r.assembleS + r.buildHtmlS).toFixed(2)} s (assembly ${r.assembleS.toFixed(2)} s, HTML and plots ${r.buildHtmlS.toFixed(2)} s)`,
+      `from folder: ${r.folderBuildS.toFixed(2)} s to read the Parquet files and write report.html (child process)`,
+      `peak RSS:    ${(r.folderPeakRssBytes / 1024 / 1024).toFixed(0)} MiB of that child (process.resourceUsage().maxRSS)`,
       `load:        ${r.loadS.toFixed(2)} s median of ${r.loads.length} (${r.loads.map((s) => s.toFixed(2)).join(', ')}; target ≤ ${REPORT_TARGETS.maxLoadS} s: ${mark(r.loadS <= REPORT_TARGETS.maxLoadS)})`,
     ].join('\n') + '\n',
   );

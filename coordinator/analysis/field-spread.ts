@@ -5,7 +5,7 @@
 import { z } from 'zod';
 import { CellSchema, type Cell } from './read-tables.js';
 import { QUANTILE_METHOD, quantileSorted } from './quantile.js';
-import { residualPhaseDeg } from './residual-phase.js';
+import { residualPhaseColumns } from './residual-phase.js';
 import { unwrapNearDeg } from '../../solver/phase.js';
 
 /** Most distinct values of an input given a group each; an input with more is cut into SPREAD_BINS bins. */
@@ -29,6 +29,27 @@ export interface SpreadRun {
   /** Frequency, Hz: the residual phase removes the free-space delay 360°·f·r/c. */
   readonly frequency_hz: number;
   readonly points: ReadonlyArray<{ range_m: number; ez_db_uv_per_m: number; ez_phase_deg: number }>;
+}
+
+/** A run as the spread takes it: its receivers as objects or as columns (views into the folder's field columns). */
+export type SpreadInput = Omit<SpreadRun, 'points'> & { readonly points: SpreadRun['points'] | PointColumns };
+
+/** One run's receivers as columns, row k of each being one receiver. */
+export interface PointColumns {
+  readonly range_m: ArrayLike<number>;
+  readonly ez_db_uv_per_m: ArrayLike<number>;
+  readonly ez_phase_deg: ArrayLike<number>;
+}
+
+/** A run's points as columns (the same arrays when they already are). */
+export function pointColumnsOf(points: SpreadInput['points']): PointColumns {
+  if (!Array.isArray(points)) return points as PointColumns;
+  const list = points as ReadonlyArray<{ range_m: number; ez_db_uv_per_m: number; ez_phase_deg: number }>;
+  return {
+    range_m: Float64Array.from(list, (p) => p.range_m),
+    ez_db_uv_per_m: Float64Array.from(list, (p) => p.ez_db_uv_per_m),
+    ez_phase_deg: Float64Array.from(list, (p) => p.ez_phase_deg),
+  };
 }
 
 export const SpreadGroupSchema = z.strictObject({
@@ -121,7 +142,7 @@ function shortText(v: Cell): string {
 }
 
 /** The group of every run for one input, and the groups. Runs without the input form a last group. */
-function groupRuns(runs: readonly SpreadRun[], column: string): { grouping: 'values' | 'bins'; groups: SpreadGroup[]; of: number[] } {
+function groupRuns(runs: readonly SpreadInput[], column: string): { grouping: 'values' | 'bins'; groups: SpreadGroup[]; of: number[] } {
   const values = runs.map((r) => r.params[column] ?? null);
   const present = values.map((v, k) => ({ v, k })).filter((e) => e.v !== null) as Array<{ v: Exclude<Cell, null>; k: number }>;
   present.sort((a, b) => compareCells(a.v, b.v) || a.k - b.k);
@@ -179,33 +200,44 @@ function circularMeanDeg(anglesDeg: readonly number[]): number {
 
 /**
  * The spread of field strength and residual phase over `runs`, grouped by each of `inputs` (or all together when
- * none is given), with up to MAX_DRAWN_RUNS runs drawn whole. Residual phases (residualPhaseDeg, unwrapped along
+ * none is given), with up to MAX_DRAWN_RUNS runs drawn whole. Residual phases (residualPhaseColumns, unwrapped along
  * range on every receiver before thinning) are shifted by whole turns so that each run's value at its first receiver
  * lies within 180° of the circular mean of those values over all runs: runs then compare without 360° jumps. Quantiles by
  * QUANTILE_METHOD over the runs of a group that have a receiver at the range.
  */
-export function fieldSpread(runs: readonly SpreadRun[], inputs: ReadonlyArray<{ path: string; column: string }>): FieldSummary {
-  const allRanges = [...new Set(runs.flatMap((r) => r.points.map((p) => p.range_m)))].sort((a, b) => a - b);
+export function fieldSpread(runs: readonly SpreadInput[], inputs: ReadonlyArray<{ path: string; column: string }>): FieldSummary {
+  const cols = runs.map((r) => pointColumnsOf(r.points));
+  const rangeSet = new Set<number>();
+  for (const c of cols) for (let i = 0; i < c.range_m.length; i++) rangeSet.add(c.range_m[i]);
+  const allRanges = [...rangeSet].sort((a, b) => a - b);
   const plotted = evenIndices(allRanges.length, MAX_RANGES_PER_LINE).map((i) => allRanges[i]);
   const column = new Map(plotted.map((r, c) => [r, c]));
   const nc = plotted.length;
   // Values of every run at the plotted ranges, NaN where a run has no receiver there.
   const db = new Float64Array(runs.length * nc).fill(Number.NaN);
   const phase = new Float64Array(runs.length * nc).fill(Number.NaN);
-  const residuals = runs.map((r) => residualPhaseDeg(r));
-  const reference = circularMeanDeg(residuals.filter((res) => res.length > 0).map((res) => res[0].value));
-  runs.forEach((run, k) => {
-    const res = residuals[k];
-    const shift = res.length > 0 ? unwrapNearDeg(res[0].value, reference) - res[0].value : 0;
-    for (const p of run.points) {
-      const c = column.get(p.range_m);
-      if (c !== undefined) db[k * nc + c] = p.ez_db_uv_per_m;
+  // Residual phases one run at a time (a first pass for each run's first value, a second to place them), so only
+  // one run's residuals are held at once.
+  const residualOf = (k: number) => residualPhaseColumns(runs[k].frequency_hz, cols[k].range_m, cols[k].ez_phase_deg);
+  const firsts: number[] = [];
+  for (let k = 0; k < runs.length; k++) {
+    const res = residualOf(k);
+    if (res.value.length > 0) firsts.push(res.value[0]);
+  }
+  const reference = circularMeanDeg(firsts);
+  for (let k = 0; k < runs.length; k++) {
+    const pts = cols[k];
+    const res = residualOf(k);
+    const shift = res.value.length > 0 ? unwrapNearDeg(res.value[0], reference) - res.value[0] : 0;
+    for (let i = 0; i < pts.range_m.length; i++) {
+      const c = column.get(pts.range_m[i]);
+      if (c !== undefined) db[k * nc + c] = pts.ez_db_uv_per_m[i];
     }
-    for (const p of res) {
-      const c = column.get(p.range_m);
-      if (c !== undefined) phase[k * nc + c] = p.value + shift;
+    for (let i = 0; i < res.value.length; i++) {
+      const c = column.get(res.range_m[i]);
+      if (c !== undefined) phase[k * nc + c] = res.value[i] + shift;
     }
-  });
+  }
   const drawnIndex = evenIndices(runs.length, MAX_DRAWN_RUNS);
   const drawn: DrawnRun[] = drawnIndex.map((k) => ({
     job_id: runs[k].job_id,

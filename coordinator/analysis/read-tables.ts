@@ -29,12 +29,155 @@ export interface FieldRecord {
   ez_phase_deg: number;
 }
 
-export interface FolderTables {
+/**
+ * The rows of fields/ as compact columns, sorted by job id, range and height: row k is job `jobIds[job[k]]` at
+ * `range_m[k]`, `height_m[k]`. The rows of job j are `start[j]` up to `start[j + 1]` (`start` has one entry more
+ * than `jobIds`). About 36 bytes a row, where an object a row takes several times that.
+ */
+export interface FieldColumns {
+  readonly length: number;
+  readonly jobIds: readonly string[];
+  readonly start: Int32Array;
+  readonly job: Int32Array;
+  readonly range_m: Float64Array;
+  readonly height_m: Float64Array;
+  readonly ez_db_uv_per_m: Float64Array;
+  readonly ez_phase_deg: Float64Array;
+}
+
+/** The field rows in either form: objects (tests, made-up tables) or the columns `readReportFolder` reads. */
+export type FieldRows = readonly FieldRecord[] | FieldColumns;
+
+export function isFieldColumns(rows: FieldRows): rows is FieldColumns {
+  return !Array.isArray(rows);
+}
+
+/** One job's rows as column views (no copy), sorted by range then height. */
+export interface JobColumns {
+  readonly range_m: Float64Array;
+  readonly height_m: Float64Array;
+  readonly ez_db_uv_per_m: Float64Array;
+  readonly ez_phase_deg: Float64Array;
+}
+
+/** The rows of every job, keyed by job id, as views into the columns. */
+export function jobColumnsOf(cols: FieldColumns): Map<string, JobColumns> {
+  const out = new Map<string, JobColumns>();
+  cols.jobIds.forEach((id, j) => {
+    const a = cols.start[j];
+    const b = cols.start[j + 1];
+    if (b > a) {
+      out.set(id, {
+        range_m: cols.range_m.subarray(a, b),
+        height_m: cols.height_m.subarray(a, b),
+        ez_db_uv_per_m: cols.ez_db_uv_per_m.subarray(a, b),
+        ez_phase_deg: cols.ez_phase_deg.subarray(a, b),
+      });
+    }
+  });
+  return out;
+}
+
+/** Columns of field records (sorted by job id, range and height, as the folder reader sorts them). */
+export function fieldColumnsFromRecords(records: readonly FieldRecord[]): FieldColumns {
+  const sorted = [...records].sort((a, b) => (a.job_id < b.job_id ? -1 : a.job_id > b.job_id ? 1 : a.range_m - b.range_m || a.height_m - b.height_m));
+  const b = new FieldColumnsBuilder(sorted.length);
+  for (const r of sorted) b.push(r.job_id, r.range_m, r.height_m, r.ez_db_uv_per_m, r.ez_phase_deg);
+  return b.finish();
+}
+
+/** The columns as records again (for the analysis that takes records: convergence and sensitivity in memory). */
+export function fieldRecordsOf(rows: FieldRows): readonly FieldRecord[] {
+  if (!isFieldColumns(rows)) return rows;
+  const out: FieldRecord[] = [];
+  for (let k = 0; k < rows.length; k++) {
+    out.push({
+      job_id: rows.jobIds[rows.job[k]],
+      range_m: rows.range_m[k],
+      height_m: rows.height_m[k],
+      ez_db_uv_per_m: rows.ez_db_uv_per_m[k],
+      ez_phase_deg: rows.ez_phase_deg[k],
+    });
+  }
+  return out;
+}
+
+/** Appends rows sorted by job id into typed columns sized up front (or grown by doubling). */
+class FieldColumnsBuilder {
+  private n = 0;
+  private jobIds: string[] = [];
+  private starts: number[] = [];
+  private job: Int32Array;
+  private range: Float64Array;
+  private height: Float64Array;
+  private db: Float64Array;
+  private phase: Float64Array;
+
+  constructor(capacity: number) {
+    const c = Math.max(1, capacity);
+    this.job = new Int32Array(c);
+    this.range = new Float64Array(c);
+    this.height = new Float64Array(c);
+    this.db = new Float64Array(c);
+    this.phase = new Float64Array(c);
+  }
+
+  private grow(): void {
+    const c = this.job.length * 2;
+    const more = <T extends Int32Array | Float64Array>(a: T, make: (n: number) => T): T => {
+      const b = make(c);
+      b.set(a);
+      return b;
+    };
+    this.job = more(this.job, (n) => new Int32Array(n));
+    this.range = more(this.range, (n) => new Float64Array(n));
+    this.height = more(this.height, (n) => new Float64Array(n));
+    this.db = more(this.db, (n) => new Float64Array(n));
+    this.phase = more(this.phase, (n) => new Float64Array(n));
+  }
+
+  push(jobId: string, range: number, height: number, db: number, phase: number): void {
+    if (this.n === this.job.length) this.grow();
+    const last = this.jobIds.length - 1;
+    if (last < 0 || this.jobIds[last] !== jobId) {
+      this.jobIds.push(jobId);
+      this.starts.push(this.n);
+    }
+    const k = this.n++;
+    this.job[k] = this.jobIds.length - 1;
+    this.range[k] = range;
+    this.height[k] = height;
+    this.db[k] = db;
+    this.phase[k] = phase;
+  }
+
+  finish(): FieldColumns {
+    const n = this.n;
+    // Exactly n rows: a copy only when the capacity was a guess that came out larger.
+    const fit = <T extends Int32Array | Float64Array>(a: T): T => (a.length === n ? a : (a.slice(0, n) as T));
+    return {
+      length: n,
+      jobIds: this.jobIds,
+      start: Int32Array.from([...this.starts, n]),
+      job: fit(this.job),
+      range_m: fit(this.range),
+      height_m: fit(this.height),
+      ez_db_uv_per_m: fit(this.db),
+      ez_phase_deg: fit(this.phase),
+    };
+  }
+}
+
+/** No field rows. */
+export const NO_FIELD_COLUMNS: FieldColumns = new FieldColumnsBuilder(0).finish();
+
+export interface FolderTables<F extends FieldRows = readonly FieldRecord[]> {
   sweep: Sweep;
   sweepFileName: string | null;
   runColumns: readonly string[];
   runs: readonly RunRecord[];
-  fields: readonly FieldRecord[];
+  /** The field rows: objects where made in memory, columns as `readReportFolder` reads them. */
+  fields: F;
   /** convergence.parquet and sensitivity.parquet when the folder has them (null: compute here). */
   convergence: ConvergenceRow[] | null;
   sensitivity: SensitivityRow[] | null;
@@ -106,7 +249,9 @@ function parseTable<T>(schema: z.ZodType<T>, rows: Record<string, Cell>[], file:
  * memory: read those job by job with `openFieldReader`). Throws UserError when the folder is not a sweep's output
  * folder.
  */
-export async function readReportFolder(dir: string, options: { fields?: boolean } = {}): Promise<FolderTables> {
+export async function readReportFolder(dir: string, options: { fields: false }): Promise<FolderTables>;
+export async function readReportFolder(dir: string, options?: { fields?: true }): Promise<FolderTables<FieldColumns>>;
+export async function readReportFolder(dir: string, options: { fields?: boolean } = {}): Promise<FolderTables<FieldRows>> {
   if (!existsSync(dir) || !statSync(dir).isDirectory()) {
     throw new UserError(`report: ${dir}: no such folder; give the output folder of a sweep (the one holding runs.parquet)`, CODE);
   }
@@ -124,21 +269,19 @@ export async function readReportFolder(dir: string, options: { fields?: boolean 
   try {
     const runs = await readFile(conn, `SELECT * FROM read_parquet(${sqlPath(runsPath)})`, runsPath);
     const fieldsDir = join(dir, REPORT_INPUTS.fields);
-    let fields: FieldRecord[] = [];
-    if (existsSync(fieldsDir) && (options.fields ?? true)) {
+    const wantFields = options.fields ?? true;
+    let fields: FieldRows = wantFields ? NO_FIELD_COLUMNS : [];
+    if (existsSync(fieldsDir) && wantFields) {
       const glob = join(fieldsDir, '**', '*.parquet');
-      const read = await readFile(
-        conn,
-        `SELECT job_id, range_m, height_m, ez_db_uv_per_m, ez_phase_deg FROM read_parquet(${sqlPath(glob)}, hive_partitioning = true) ORDER BY job_id, range_m, height_m`,
-        fieldsDir,
-      );
-      fields = read.rows.map((r) => ({
-        job_id: String(r.job_id),
-        range_m: Number(r.range_m),
-        height_m: Number(r.height_m),
-        ez_db_uv_per_m: Number(r.ez_db_uv_per_m),
-        ez_phase_deg: Number(r.ez_phase_deg),
-      }));
+      try {
+        fields = await readFieldColumns(conn, sqlPath(glob));
+      } catch (e) {
+        const first = String((e as Error).message ?? e).split('\n')[0].trim();
+        throw new UserError(
+          `${fieldsDir}: cannot be read as a Parquet table (${first}); write the outputs again with loamwave run or loamwave collect (they are rebuilt from the ledger)`,
+          'loamwave.outputs.unreadable',
+        );
+      }
     }
     const optional = async <T>(file: string, schema: z.ZodType<T>): Promise<T[] | null> => {
       const path = join(dir, file);
@@ -147,11 +290,29 @@ export async function readReportFolder(dir: string, options: { fields?: boolean 
     };
     const convergence: ConvergenceRow[] | null = await optional(REPORT_INPUTS.convergence, ConvergenceRowSchema);
     const sensitivity: SensitivityRow[] | null = await optional(REPORT_INPUTS.sensitivity, SensitivityRowSchema);
-    return { sweep, sweepFileName: sweepName, runColumns: runs.columns, runs: runs.rows as RunRecord[], fields, convergence, sensitivity };
+    return { sweep, sweepFileName: sweepName, runColumns: runs.columns, runs: runs.rows as RunRecord[], fields, convergence, sensitivity } as FolderTables<FieldRows>;
   } finally {
     conn.closeSync();
     db.closeSync();
   }
+}
+
+/**
+ * The field rows of `glob` as columns, sorted by job id, range and height, read chunk by chunk (DuckDB's
+ * streaming result): the columns are sized from a COUNT(*) first, so no row is ever held as an object.
+ */
+async function readFieldColumns(conn: DuckDBConnection, glob: string): Promise<FieldColumns> {
+  const from = `read_parquet(${glob}, hive_partitioning = true)`;
+  const count = Number((await conn.runAndReadAll(`SELECT COUNT(*) FROM ${from}`)).getColumns()[0][0]);
+  const builder = new FieldColumnsBuilder(count);
+  const result = await conn.stream(`SELECT job_id, range_m, height_m, ez_db_uv_per_m, ez_phase_deg FROM ${from} ORDER BY job_id, range_m, height_m`);
+  for (;;) {
+    const chunk = await result.fetchChunk();
+    if (!chunk || chunk.rowCount === 0) break;
+    const [id, range, height, db, phase] = chunk.getColumns() as [unknown[], unknown[], unknown[], unknown[], unknown[]];
+    for (let i = 0; i < id.length; i++) builder.push(String(id[i]), Number(range[i]), Number(height[i]), Number(db[i]), Number(phase[i]));
+  }
+  return builder.finish();
 }
 
 /** One job's field rows, sorted by range then height (as `fieldsByJob` sorts them). */

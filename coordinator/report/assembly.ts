@@ -15,7 +15,7 @@ import {
   type AnalysisOptions,
   type Notes,
 } from '../analysis/compute-tables.js';
-import type { FolderTables } from '../analysis/read-tables.js';
+import { fieldRecordsOf, isFieldColumns, jobColumnsOf, type FieldRows, type FolderTables } from '../analysis/read-tables.js';
 import type { Sweep } from '../../schemas/sweep.js';
 import {
   MAX_CONVERGENCE_LINES,
@@ -28,7 +28,7 @@ import {
 } from './data.js';
 import type { SensitivityRow } from '../../schemas/analysis-rows.js';
 import type { Cell } from '../analysis/read-tables.js';
-import { evenIndices, fieldSpread, MAX_DRAWN_RUNS, MAX_RANGES_PER_LINE, type SpreadRun } from '../analysis/field-spread.js';
+import { evenIndices, fieldSpread, MAX_DRAWN_RUNS, MAX_RANGES_PER_LINE, pointColumnsOf, type PointColumns, type SpreadInput } from '../analysis/field-spread.js';
 import { columnNameFor } from '../../schemas/table-rows.js';
 import { unwrapNearDeg } from '../../solver/phase.js';
 
@@ -40,7 +40,7 @@ export const MAX_CURVATURE_LINES = MAX_DRAWN_RUNS;
 
 const RUN_TABLE_COLUMNS = ['job_id', 'status', 'cell_size_m', 'steps', 'cells_total', 'wall_time_s', 'warnings', 'error'];
 
-function warningsOf(tables: FolderTables, convergence: readonly ConvergenceRow[]): ReportWarning[] {
+function warningsOf(tables: FolderTables<FieldRows>, convergence: readonly ConvergenceRow[]): ReportWarning[] {
   const out: ReportWarning[] = [];
   for (const run of tables.runs) {
     const job = String(run.job_id);
@@ -61,7 +61,7 @@ function warningsOf(tables: FolderTables, convergence: readonly ConvergenceRow[]
   return out;
 }
 
-function variedOf(tables: FolderTables): VariedInput[] {
+function variedOf(tables: FolderTables<FieldRows>): VariedInput[] {
   return paramColumnsOf(tables.sweep).map(({ path, column }) => {
     const values = tables.runs.map((r) => r[column]).filter((v) => v !== null && v !== undefined);
     const numbers = values.filter((v): v is number => typeof v === 'number');
@@ -86,17 +86,23 @@ const DEFAULT_EARTH_RADIUS_M = 6_371_000;
  * varied `earth.radius_m`, else the base case's, else the mean radius. Returns every row, sorted by group, radius and
  * range.
  */
-function curvatureOf(tables: FolderTables, series: readonly SpreadRun[]): CurvatureRow[] {
+function curvatureOf(tables: FolderTables<FieldRows>, series: readonly SpreadInput[]): CurvatureRow[] {
   const sweep = tables.sweep;
   if (!('geometry' in sweep.vary)) return [];
   const geometryColumn = columnNameFor('geometry');
   const radiusColumn = columnNameFor('earth.radius_m');
   const baseRadius = num((sweep.base as { earth?: { radius_m?: Cell } }).earth?.radius_m as Cell) ?? DEFAULT_EARTH_RADIUS_M;
   const others = paramColumnsOf(sweep).filter((p) => p.column !== geometryColumn && p.column !== radiusColumn);
-  const groupOf = (s: SpreadRun) => others.map((p) => `${p.path}=${String(s.params[p.column] ?? '')}`).join(', ');
-  const flat = new Map<string, Map<number, SpreadRun['points'][number]>>();
+  const groupOf = (s: SpreadInput) => others.map((p) => `${p.path}=${String(s.params[p.column] ?? '')}`).join(', ');
+  // The flat run of each group: its columns and the row of each range (the last row at a range, when several).
+  const flat = new Map<string, { cols: PointColumns; at: Map<number, number> }>();
   for (const s of series) {
-    if (s.params[geometryColumn] !== 'spherical' && !flat.has(groupOf(s))) flat.set(groupOf(s), new Map(s.points.map((p) => [p.range_m, p])));
+    if (s.params[geometryColumn] !== 'spherical' && !flat.has(groupOf(s))) {
+      const cols = pointColumnsOf(s.points);
+      const at = new Map<number, number>();
+      for (let i = 0; i < cols.range_m.length; i++) at.set(cols.range_m[i], i);
+      flat.set(groupOf(s), { cols, at });
+    }
   }
   const rows: CurvatureRow[] = [];
   for (const s of series) {
@@ -104,17 +110,19 @@ function curvatureOf(tables: FolderTables, series: readonly SpreadRun[]): Curvat
     const f = flat.get(groupOf(s));
     if (!f) continue;
     const radius = num(s.params[radiusColumn]) ?? baseRadius;
-    for (const p of s.points) {
-      const q = f.get(p.range_m);
-      if (!q) continue;
+    const p = pointColumnsOf(s.points);
+    for (let i = 0; i < p.range_m.length; i++) {
+      const j = f.at.get(p.range_m[i]);
+      if (j === undefined) continue;
+      const qDb = f.cols.ez_db_uv_per_m[j];
       rows.push({
         group: groupOf(s),
         earth_radius_m: radius,
-        range_m: p.range_m,
-        flat_db: q.ez_db_uv_per_m,
-        sphere_db: p.ez_db_uv_per_m,
-        difference_db: p.ez_db_uv_per_m - q.ez_db_uv_per_m,
-        phase_difference_deg: unwrapNearDeg(p.ez_phase_deg - q.ez_phase_deg, 0),
+        range_m: p.range_m[i],
+        flat_db: qDb,
+        sphere_db: p.ez_db_uv_per_m[i],
+        difference_db: p.ez_db_uv_per_m[i] - qDb,
+        phase_difference_deg: unwrapNearDeg(p.ez_phase_deg[i] - f.cols.ez_phase_deg[j], 0),
       });
     }
   }
@@ -195,17 +203,21 @@ function designText(sweep: Sweep): string {
 }
 
 /** The report's data from an output folder's tables. */
-export function assembleReportData(tables: FolderTables, options: AnalysisOptions): ReportData {
+export function assembleReportData(tables: FolderTables<FieldRows>, options: AnalysisOptions): ReportData {
   const sweep = tables.sweep;
   const notes: Notes = { warnings: [] };
-  const convergence = tables.convergence ?? computeConvergence(tables, options);
-  const sensitivity = tables.sensitivity ?? computeSensitivity(tables, notes);
+  // The in-memory analysis takes the field rows as records: made only when the folder lacks one of its tables.
+  let asRecords: FolderTables | null = null;
+  const recordTables = (): FolderTables => (asRecords ??= { ...tables, fields: fieldRecordsOf(tables.fields) });
+  const convergence = tables.convergence ?? computeConvergence(recordTables(), options);
+  const sensitivity = tables.sensitivity ?? computeSensitivity(recordTables(), notes);
+  asRecords = null;
   // A sensitivity table read from the folder was made the same way: say so there too.
-  if (tables.sensitivity !== null) notes.sensitivityNote = finestLevelRuns(tables, tables.runs.filter((r) => r.status === 'done')).note;
+  if (tables.sensitivity !== null) notes.sensitivityNote = finestLevelRuns({ ...tables, fields: [] }, tables.runs.filter((r) => r.status === 'done')).note;
   const params = paramColumnsOf(sweep);
-  const byJob = fieldsByJob(tables.fields);
+  const byJob: Map<string, SpreadInput['points']> = isFieldColumns(tables.fields) ? jobColumnsOf(tables.fields) : fieldsByJob(tables.fields);
   // Every done run's fields, for the spread and the curvature pairs; the report keeps only their bounded summaries.
-  const series: SpreadRun[] = tables.runs.flatMap((run) => {
+  const series: SpreadInput[] = tables.runs.flatMap((run) => {
     const pts = byJob.get(String(run.job_id));
     if (run.status !== 'done' || !pts) return [];
     return [{ job_id: String(run.job_id), params: Object.fromEntries(params.map((p) => [p.column, run[p.column] ?? null])), frequency_hz: frequencyOf(run, sweep), points: pts }];
