@@ -5,7 +5,15 @@ import type { ReceiverResult, SolveResult } from '../schemas/result.js';
 import { C0, MU0 } from './constants.js';
 import { buildCpmlState } from './cpml.js';
 import { SolveCancelledError, SolverDivergedError } from './errors.js';
-import { leapfrogStep, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
+import {
+  applySurfaceImpedance,
+  updateE,
+  updateECpml,
+  updateH,
+  updateHCpml,
+  type ImpedanceRow,
+  type YeeFields,
+} from './fdtd-kernel.js';
 import { buildMaterials, magneticCoefficients, metricUnscale, planGrid, radialFactors, sourceCellAreaM2, type GridPlan } from './grid.js';
 import { buildReceiverTaps, ReceiverBank } from './receivers.js';
 import { sourceCurrent, targetMoment } from './source.js';
@@ -153,8 +161,11 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   for (;;) {
     const windowEnd = n >= sch.settleSteps && (n - sch.settleSteps) % sch.windowSteps === sch.windowSteps - 1;
     // one leapfrog step: E^n → H^{n+½} (with the ground row's E^n), H^{n+½} → E^{n+1}
-    // one leapfrog step (H, absorbing layers, ground row, E), fused per column; bit-identical to the updates in turn
-    leapfrogStep(f, pml, zrow);
+    updateH(f);
+    updateHCpml(f, pml);
+    if (zrow) applySurfaceImpedance(f, zrow);
+    updateE(f);
+    updateECpml(f, pml);
     f.ez[ks] += sourceCoef * sourceCurrent((n + 0.5) * g.dtS, omega, rampS);
     if (n >= sch.settleSteps) dft.accumulate(n, fieldsByName);
     if (windowEnd) {
