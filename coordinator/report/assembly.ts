@@ -209,7 +209,8 @@ export function assembleReportData(tables: FolderTables<FieldRows>, options: Ana
   // The in-memory analysis takes the field rows as records: made only when the folder lacks one of its tables.
   let asRecords: FolderTables | null = null;
   const recordTables = (): FolderTables => (asRecords ??= { ...tables, fields: fieldRecordsOf(tables.fields) });
-  const convergence = tables.convergence ?? computeConvergence(recordTables(), options);
+  // (No resolution axis: no convergence study, and no records needed for it.)
+  const convergence = tables.convergence ?? (sweep.resolution_axis === undefined ? [] : computeConvergence(recordTables(), options));
   const sensitivity = tables.sensitivity ?? computeSensitivity(recordTables(), notes);
   asRecords = null;
   // A sensitivity table read from the folder was made the same way: say so there too.
