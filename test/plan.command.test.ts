@@ -7,7 +7,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it, vi } from 'vitest
 import { parseCase } from '../schemas/case.js';
 import { estimateCost } from '../solver/index.js';
 import { main } from '../coordinator/cli.js';
-import { kernelSpeed } from '../coordinator/sweep/kernel-speed.js';
+import { kernelSpeed, recordRunOverhead, runOverhead } from '../coordinator/sweep/kernel-speed.js';
 import { longestFirstMakespan } from '../coordinator/sweep/plan.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'loamwave-plan-'));
@@ -85,6 +85,26 @@ describe('kernel speed', () => {
   });
 });
 
+describe('run overhead learned from earlier runs', () => {
+  it('when runs of several sizes were recorded then the fit is their least-squares line, and nothing recorded is no overhead', () => {
+    const env = { LOAMWAVE_CACHE_DIR: join(dir, 'overhead-cache') };
+    expect(runOverhead(env)).toEqual({ fixed_s: 0, per_row_s: 0, runs: 0 });
+    // points on overhead = 2 s + 1e-4 s per row: ordinary least squares recovers the line exactly
+    for (const rows of [100, 10_000, 50_000, 200_000]) recordRunOverhead(rows, 2 + 1e-4 * rows, env);
+    const fit = runOverhead(env);
+    expect(fit.runs).toBe(4);
+    expect(fit.fixed_s).toBeCloseTo(2, 9);
+    expect(fit.per_row_s).toBeCloseTo(1e-4, 12);
+  });
+
+  it('when the runs show no growth with size then the overhead is their mean with no per-row cost', () => {
+    const env = { LOAMWAVE_CACHE_DIR: join(dir, 'overhead-flat') };
+    recordRunOverhead(100, 3, env);
+    recordRunOverhead(1000, 1, env);
+    expect(runOverhead(env)).toEqual({ fixed_s: 2, per_row_s: 0, runs: 2 });
+  });
+});
+
 describe('loamwave plan', () => {
   it('when a sweep is planned then jobs, duplicates, costs and wall time follow from the expansion and the speed', async () => {
     const { out, err, code } = await cli('plan', SWEEP, '--json', '--workers', '2');
@@ -112,7 +132,10 @@ describe('loamwave plan', () => {
       total += j.cell_updates;
     }
     expect(plan.total_cell_updates).toBe(total);
-    expect(plan.wall_hours).toBe(longestFirstMakespan(plan.per_job.map((j: { core_hours: number }) => j.core_hours), 2));
+    // the makespan of the solves plus what a run spends beyond solving, as learned from earlier runs here
+    expect(plan.field_rows).toBe(12);
+    expect(plan.overhead_s).toBeGreaterThanOrEqual(0);
+    expect(plan.wall_hours).toBeCloseTo(longestFirstMakespan(plan.per_job.map((j: { core_hours: number }) => j.core_hours), 2) + plan.overhead_s / 3600, 12);
     expect(plan.wall_hours).toBeLessThan(plan.total_core_hours);
     expect(plan.wall_hours).toBeGreaterThanOrEqual(plan.total_core_hours / 2);
   });

@@ -29,7 +29,7 @@ export function registerPlan(program: Command): void {
     .addOption(memoryOption(''))
     .option('--remeasure', 'measure the solver speed on this machine again instead of using the cached value')
     .action(async (sweepPath: string, opts: PlanOptions) => {
-      const [{ defaultMemoryCapBytes }, { kernelSpeed }, { expandSweepDetailed }, { loadSweep }, { describeJob, planSweep }] = await Promise.all([
+      const [{ defaultMemoryCapBytes }, { kernelSpeed, runOverhead }, { expandSweepDetailed }, { loadSweep }, { describeJob, planSweep }] = await Promise.all([
         import('../../worker/run-case.js'),
         import('../sweep/kernel-speed.js'),
         import('../sweep/expand.js'),
@@ -42,7 +42,8 @@ export function registerPlan(program: Command): void {
       const source = basename(path);
       const expansion = expandSweepDetailed(sweep, source);
       const speed = kernelSpeed({ remeasure: opts.remeasure });
-      const plan = planSweep(expansion, workers, speed, capBytes);
+      const overhead = runOverhead();
+      const plan = planSweep(expansion, workers, speed, capBytes, overhead);
       if (opts.json) {
         const out = {
           sweep: sweep.name,
@@ -54,7 +55,7 @@ export function registerPlan(program: Command): void {
         };
         process.stdout.write(JSON.stringify(out, null, 2) + '\n');
       } else {
-        process.stdout.write(renderPlan(sweep.name, sweep.design.kind, sweep.resolution_axis, plan, speed.cached, describeJob));
+        process.stdout.write(renderPlan(sweep.name, sweep.design.kind, sweep.resolution_axis, plan, speed.cached, describeJob, overhead.runs));
       }
       if (!plan.fits) {
         const big = plan.per_job.find((p) => p.index === plan.largest_memory_job)!;
@@ -100,6 +101,7 @@ function renderPlan(
   p: SweepPlan,
   cached: boolean,
   describeJob: (j: SweepPlan['per_job'][number]) => string,
+  overheadRuns: number,
 ): string {
   const lines: string[] = [];
   const dup = p.duplicates > 0 ? `, ${p.duplicates} duplicate point(s) collapsed into earlier jobs` : ', no duplicates';
@@ -121,7 +123,8 @@ function renderPlan(
       `${(p.receiver_step_s * 1e9).toPrecision(2)} ns per receiver and step (${speedNote}; large grids may run slower)`,
   );
   lines.push(`total ${count(p.total_cell_updates)} cell updates ≈ ${p.total_core_hours.toPrecision(3)} core-hours`);
-  lines.push(`wall time on ${p.workers} worker(s), longest first: ≈ ${duration(p.wall_hours)}`);
+  const learned = overheadRuns > 0 ? `learned from ${overheadRuns} earlier run(s) here` : 'no earlier run measured here yet';
+  lines.push(`wall time on ${p.workers} worker(s), longest first: ≈ ${duration(p.wall_hours)} (of which start-up, ledger and outputs ≈ ${duration(p.overhead_s / 3600)}, ${learned})`);
   const verdict = p.fits ? 'within' : 'OVER';
   lines.push(`largest job needs ${bytes(p.largest_memory_bytes)} (job ${p.largest_memory_job ?? '-'}): ${verdict} the cap of ${bytes(p.memory_cap_bytes)}`);
   return lines.join('\n') + '\n';

@@ -68,6 +68,12 @@ async function finish(run: SweepRun, outcome: RunOutcome, opts: RunCliOptions, s
     process.exitCode = ExitCode.stopped;
   } else {
     await finishOutputs(run, opts.report !== false);
+    if (outcome.solvingS !== undefined && outcome.solvedNow > 0) {
+      // what this run spent beyond solving, for `plan`'s next wall-time estimate on this machine
+      const { recordRunOverhead } = await import('../sweep/kernel-speed.js');
+      const rows = run.jobs.reduce((n, j) => n + j.case.receivers.ranges_m.length, 0);
+      recordRunOverhead(rows, (performance.now() - startedMs) / 1000 - outcome.solvingS);
+    }
     if (counts.failed > 0) {
       process.stderr.write(`error: ${counts.failed} job(s) failed; their reasons are in the error column of runs.parquet (and \`loamwave status\`)\n`);
       process.exitCode = ExitCode.jobsFailed;
@@ -100,6 +106,8 @@ interface RunOutcome {
   readonly solvedNow: number;
   /** Solver starts on this machine (embedded) or null (queue: the workers solve). */
   readonly solverCalls: number | null;
+  /** Seconds the local pool spent solving (embedded). */
+  readonly solvingS?: number;
 }
 
 async function runEmbedded(run: SweepRun, opts: RunCliOptions): Promise<RunOutcome> {
@@ -135,11 +143,13 @@ async function runEmbedded(run: SweepRun, opts: RunCliOptions): Promise<RunOutco
     },
   );
   let summary: LocalDispatchSummary;
+  const solvingFrom = performance.now();
   try {
     summary = await dispatch.run();
   } finally {
     dispose();
   }
+  const solvingS = (performance.now() - solvingFrom) / 1000;
   bar.finish(progress.state(new Map()));
-  return { stopped: summary.stopped, solvedNow: summary.solved, solverCalls: summary.solverCalls };
+  return { stopped: summary.stopped, solvedNow: summary.solved, solverCalls: summary.solverCalls, solvingS };
 }

@@ -135,3 +135,66 @@ export function kernelSpeed(options: { env?: NodeJS.ProcessEnv; remeasure?: bool
   }
   return { ...fresh, cached: false };
 }
+
+/** One finished embedded run: its field rows and what it spent outside solving (start-up, ledger, outputs). */
+const RunOverheadRecordSchema = z.strictObject({ field_rows: z.number().nonnegative(), overhead_s: z.number().nonnegative().finite() });
+const RunOverheadFileSchema = z.strictObject({ cpu_model: z.string(), runs: z.array(RunOverheadRecordSchema) });
+
+/** Runs kept for the fit: recent enough to reflect this machine and release, many enough to span sweep sizes. */
+const OVERHEAD_RUNS_KEPT = 20;
+
+/** What a run spends beyond solving, as learned from earlier runs here: fixed + per field row. */
+export interface RunOverhead {
+  readonly fixed_s: number;
+  readonly per_row_s: number;
+  /** Earlier runs the fit rests on (0: nothing learned yet, both costs 0). */
+  readonly runs: number;
+}
+
+function overheadFile(env?: NodeJS.ProcessEnv): string {
+  return join(cacheDir(env), 'run-overhead.json');
+}
+
+function readOverheadRuns(env?: NodeJS.ProcessEnv): Array<z.infer<typeof RunOverheadRecordSchema>> {
+  try {
+    const parsed = RunOverheadFileSchema.safeParse(JSON.parse(readFileSync(overheadFile(env), 'utf8')));
+    return parsed.success && parsed.data.cpu_model === cpuModel() ? parsed.data.runs : [];
+  } catch {
+    return [];
+  }
+}
+
+/** Remember a finished run's overhead (atomically; an unwritable cache is not an error). */
+export function recordRunOverhead(fieldRows: number, overheadS: number, env?: NodeJS.ProcessEnv): void {
+  if (!(Number.isFinite(overheadS) && overheadS >= 0)) return;
+  const runs = [...readOverheadRuns(env), { field_rows: fieldRows, overhead_s: overheadS }].slice(-OVERHEAD_RUNS_KEPT);
+  try {
+    mkdirSync(cacheDir(env), { recursive: true });
+    const file = overheadFile(env);
+    const tmp = `${file}.${process.pid}.tmp`;
+    writeFileSync(tmp, JSON.stringify({ cpu_model: cpuModel(), runs }, null, 2) + '\n');
+    renameSync(tmp, file);
+  } catch {
+    // read-only cache: nothing learned this time
+  }
+}
+
+/**
+ * The overhead of a run here, by least squares over the runs remembered: overhead ≈ fixed + per_row × rows
+ * (ordinary least squares, e.g. Montgomery & Runger, Applied Statistics and Probability for Engineers, ch. 11),
+ * with both costs held non-negative (a negative slope falls back to the mean and no per-row cost).
+ */
+export function runOverhead(env?: NodeJS.ProcessEnv): RunOverhead {
+  const runs = readOverheadRuns(env);
+  const n = runs.length;
+  if (n === 0) return { fixed_s: 0, per_row_s: 0, runs: 0 };
+  const mx = runs.reduce((s, r) => s + r.field_rows, 0) / n;
+  const my = runs.reduce((s, r) => s + r.overhead_s, 0) / n;
+  const sxx = runs.reduce((s, r) => s + (r.field_rows - mx) ** 2, 0);
+  const sxy = runs.reduce((s, r) => s + (r.field_rows - mx) * (r.overhead_s - my), 0);
+  const slope = sxx > 0 ? sxy / sxx : 0;
+  if (slope <= 0) return { fixed_s: my, per_row_s: 0, runs: n };
+  const fixed = my - slope * mx;
+  if (fixed < 0) return { fixed_s: 0, per_row_s: my / Math.max(mx, 1), runs: n };
+  return { fixed_s: fixed, per_row_s: slope, runs: n };
+}

@@ -42,8 +42,12 @@ export interface SweepPlan {
   receiver_step_s: number;
   total_cell_updates: number;
   total_core_hours: number;
-  /** Makespan of longest-first list scheduling on `workers` identical workers, hours. */
+  /** Makespan of longest-first list scheduling on `workers` identical workers, plus overhead_s, hours. */
   wall_hours: number;
+  /** What the run spends beyond solving (start-up, ledger, outputs), seconds, as learned from earlier runs. */
+  overhead_s: number;
+  /** Field rows the sweep writes (jobs × receivers). */
+  field_rows: number;
   largest_memory_bytes: number;
   largest_memory_job: number | null;
   memory_cap_bytes: number;
@@ -94,7 +98,13 @@ export function longestFirstMakespan(durations: readonly number[], workers: numb
  * Plan a sweep's expansion on `workers` workers with the machine's costs (a bare number is an update rate with no
  * other cost), against `memoryCapBytes` per job.
  */
-export function planSweep(expansion: Expansion, workers: number, costs: CostModel | number, memoryCapBytes: number): SweepPlan {
+export function planSweep(
+  expansion: Expansion,
+  workers: number,
+  costs: CostModel | number,
+  memoryCapBytes: number,
+  overhead: { readonly fixed_s: number; readonly per_row_s: number } = { fixed_s: 0, per_row_s: 0 },
+): SweepPlan {
   const m: CostModel = typeof costs === 'number' ? { cell_updates_per_s: costs, job_overhead_s: 0, receiver_step_s: 0 } : costs;
   const perJob: JobPlan[] = expansion.jobs.map((j) => {
     const cost = { ...estimateCost(j.case), receivers: j.case.receivers.ranges_m.length };
@@ -109,6 +119,8 @@ export function planSweep(expansion: Expansion, workers: number, costs: CostMode
   let largest: JobPlan | undefined;
   for (const p of perJob) if (!largest || p.memory_bytes > largest.memory_bytes) largest = p;
   const totalUpdates = perJob.reduce((s, p) => s + p.cell_updates, 0);
+  const fieldRows = perJob.reduce((s, p) => s + p.receivers, 0);
+  const overheadS = overhead.fixed_s + overhead.per_row_s * fieldRows;
   return {
     design_points: expansion.points,
     jobs: perJob.length,
@@ -119,7 +131,9 @@ export function planSweep(expansion: Expansion, workers: number, costs: CostMode
     receiver_step_s: m.receiver_step_s,
     total_cell_updates: totalUpdates,
     total_core_hours: perJob.reduce((sum, p) => sum + p.core_hours, 0),
-    wall_hours: longestFirstMakespan(perJob.map((p) => p.core_hours), workers),
+    wall_hours: longestFirstMakespan(perJob.map((p) => p.core_hours), workers) + overheadS / 3600,
+    overhead_s: overheadS,
+    field_rows: fieldRows,
     largest_memory_bytes: largest?.memory_bytes ?? 0,
     largest_memory_job: largest?.index ?? null,
     memory_cap_bytes: memoryCapBytes,
