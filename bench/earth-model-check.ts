@@ -9,6 +9,7 @@ import { DuckDBInstance } from '@duckdb/node-api';
 import { parse } from 'yaml';
 import { readFileSync } from 'node:fs';
 import { parseCase } from '../schemas/case.js';
+import { pecDipoleFarFieldRmsVPerM } from '../solver/references/dipole.js';
 import { millingtonField, pathToRange } from '../solver/references/millington.js';
 import { sphericalEarthFieldRatio } from '../solver/references/spherical-earth.js';
 
@@ -23,7 +24,6 @@ async function main(dir: string): Promise<void> {
   if (base.ground.model !== 'impedance') throw new Error('the example has an impedance ground');
   const segments = (base.ground.segments ?? []).map((s) => ({ startM: s.start_m, ground: { sigma: s.conductivity_s_per_m, epsR: s.relative_permittivity } }));
   const f = base.frequency_hz;
-  const powerKw = base.source.power_w / 1000;
   const db = await DuckDBInstance.create(':memory:');
   const con = await db.connect();
   const glob = join(dir, 'fields', '**', '*.parquet').replaceAll("'", "''");
@@ -37,9 +37,8 @@ async function main(dir: string): Promise<void> {
     const d = Number(row.range_m);
     const curve = (g: Ground, x: number) => sphericalEarthFieldRatio(f, g.sigma, g.epsR, radiusM, x, { deltaForm: 'surface-impedance' });
     const ratio = millingtonField(pathToRange(segments, d), curve);
-    // |E| of a short vertical monopole on a perfect flat ground, far field: 300·√P(kW)/d(km) mV/m, the 300 V
-    // cymomotive force of 1 kW radiated (ITU-R P.368's reference source, from memory), the curves' reference.
-    const flatPecDb = 20 * Math.log10(((300 * Math.sqrt(powerKw)) / (d / 1000)) * 1000);
+    // the curves' reference: the far field of the dipole over a perfect flat ground (≈ 300·√P(kW)/d(km) mV/m)
+    const flatPecDb = 20 * Math.log10(pecDipoleFarFieldRmsVPerM(base.source.power_w, d) * 1e6);
     const want = flatPecDb + ratio.db;
     const got = Number(row.ez_db_uv_per_m);
     worst = Math.max(worst, Math.abs(got - want));
