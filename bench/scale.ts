@@ -129,10 +129,25 @@ async function childOutputs(dir: string): Promise<void> {
   const { sweep, text } = loadSweep(join(dir, 'sweep.yaml'));
   const ledger = Ledger.open(dir);
   const t0 = performance.now();
-  const summary = await writeOutputs(ledger, sweep, text, join(dir, 'out'));
+  // each stage's time and peak RSS (sampled every 50 ms; the process's own peak is reported on exit)
+  const stageSeconds: Record<string, number> = {};
+  const stageRssMiB: Record<string, number> = {};
+  let clock = t0;
+  let peak = 0;
+  const sampler = setInterval(() => (peak = Math.max(peak, process.memoryUsage().rss)), 50);
+  const summary = await writeOutputs(ledger, sweep, text, join(dir, 'out'), {
+    onStage: (name) => {
+      const now = performance.now();
+      stageSeconds[name] = (now - clock) / 1000;
+      stageRssMiB[name] = Math.max(peak, process.memoryUsage().rss) / 2 ** 20;
+      clock = now;
+      peak = 0;
+    },
+  });
+  clearInterval(sampler);
   const seconds = (performance.now() - t0) / 1000;
   ledger.close();
-  process.stdout.write(JSON.stringify({ seconds, summary }) + '\n');
+  process.stdout.write(JSON.stringify({ seconds, summary, stageSeconds, stageRssMiB }) + '\n');
 }
 
 interface ChildRun {
@@ -204,14 +219,15 @@ async function parent(sizes: string[]): Promise<void> {
       const fill = child(['--fill', dir]);
       const ledgerBytes = bytesUnder(join(dir, 'ledger.sqlite'));
       const out = child(['--outputs', dir]);
-      const { seconds, summary } = JSON.parse(out.stdout) as { seconds: number; summary: { runs: number; fieldRows: number; parts: number; convergenceRows: number | null; sensitivityRows: number | null } };
+      const { seconds, summary, stageSeconds, stageRssMiB } = JSON.parse(out.stdout) as { seconds: number; stageSeconds: Record<string, number>; stageRssMiB: Record<string, number>; summary: { runs: number; fieldRows: number; parts: number; convergenceRows: number | null; sensitivityRows: number | null } };
       const o = join(dir, 'out');
       const status = statusChild(dir);
       console.log(
         [
           `${summary.fieldRows} field rows (${summary.runs} jobs x ${RECEIVERS} receivers):`,
           `  ledger fill ${fmt(fill.seconds)} s; ledger ${fmt(ledgerBytes / MiB)} MiB = ${fmt(ledgerBytes / summary.fieldRows, 0)} bytes per field row`,
-          `  output stage ${fmt(seconds)} s (child ${fmt(out.seconds)} s), peak RSS ${fmt(out.maxRssMiB, 0)} MiB`,
+          `  output stage ${fmt(seconds)} s (child ${fmt(out.seconds)} s), peak RSS ${fmt(out.maxRssMiB, 0)} MiB; ` +
+            Object.entries(stageSeconds).map(([k, v]) => `${k} ${fmt(v)} s (peak ~${fmt(stageRssMiB[k], 0)} MiB)`).join(', '),
           `  runs.parquet ${fmt(bytesUnder(join(o, 'runs.parquet')) / MiB, 2)} MiB; fields/ ${fmt(bytesUnder(join(o, 'fields')) / MiB)} MiB in ${summary.parts} parts` +
             ` (${fmt(bytesUnder(join(o, 'fields')) / summary.fieldRows, 1)} bytes per row)`,
           `  convergence.parquet ${summary.convergenceRows} rows, ${fmt(bytesUnder(join(o, 'convergence.parquet')) / MiB, 2)} MiB; sensitivity.parquet ${summary.sensitivityRows} rows, ${fmt(bytesUnder(join(o, 'sensitivity.parquet')) / MiB, 2)} MiB`,
@@ -224,8 +240,11 @@ async function parent(sizes: string[]): Promise<void> {
   }
 }
 
-const [flag, arg] = process.argv.slice(2);
-if (flag === '--fill' || flag === '--outputs' || flag === '--status-ledger') {
+const [flag, arg, size] = process.argv.slice(2);
+if (flag === '--sweep') {
+  // for profiling one stage by hand: `--sweep DIR ROWS`, then `--fill DIR`, then `node --cpu-prof … --outputs DIR`
+  writeFileSync(join(arg, 'sweep.yaml'), sweepText(Number(size)));
+} else if (flag === '--fill' || flag === '--outputs' || flag === '--status-ledger') {
   await (flag === '--fill' ? childFill(arg) : flag === '--outputs' ? childOutputs(arg) : childStatusLedger(arg));
   process.stdout.write(JSON.stringify({ maxRSSkB: process.resourceUsage().maxRSS }) + '\n');
 } else {

@@ -166,8 +166,8 @@ describe('outputs', () => {
     ledger.commitResult(realResult(jobs[1]));
     // Fault injection: the result stream breaks after its first item, as a crash of the reader would.
     const breaking = Object.create(ledger) as Ledger;
-    breaking.resultTexts = function* () {
-      const it = ledger.resultTexts();
+    breaking.resultTextsOf = function* (ids) {
+      const it = ledger.resultTextsOf(ids);
       yield it.next().value!;
       throw new Error('simulated crash while writing fields');
     };
@@ -256,12 +256,12 @@ describe('outputs', () => {
     ledger.commitResult(realResult(js[0]));
     await writeOutputs(ledger, s, JSON.stringify(input), out, { jobs: js });
     const outputs = () => readdirSync(out).filter((f) => !f.startsWith('ledger.sqlite')).sort();
-    expect(outputs()).toEqual(['.loamwave-outputs.json', 'convergence.parquet', 'fields', 'runs.parquet', 'sensitivity.parquet', 'sweep.json']);
+    expect(outputs()).toEqual(['.loamwave-outputs.json', '.loamwave-segments', 'convergence.parquet', 'fields', 'runs.parquet', 'sensitivity.parquet', 'sweep.json']);
     const firstRevision = ledger.revision();
     for (const j of js.slice(1)) ledger.commitResult(realResult(j));
     // Fault: a sweep copy the analysis cannot read back (YAML text that is no sweep) makes the second stage throw.
     await expect(writeOutputs(ledger, s, 'not: a sweep\n', out, { jobs: js })).rejects.toThrow('sweep.yaml');
-    expect(outputs()).toEqual(['.loamwave-outputs.json', 'fields', 'runs.parquet', 'sweep.yaml']);
+    expect(outputs()).toEqual(['.loamwave-outputs.json', '.loamwave-segments', 'fields', 'runs.parquet', 'sweep.yaml']);
     // The state left names the first write's revision, not the ledger's now: a rerun writes everything again.
     expect(JSON.parse(readFileSync(join(out, '.loamwave-outputs.json'), 'utf8')).ledger_revision).toBe(firstRevision);
     expect(ledger.revision()).toBeGreaterThan(firstRevision);

@@ -246,11 +246,16 @@ export function convergenceTable(runs: readonly ConvergenceRun[], options: Conve
       (a, b) => cellSizeOf(options.axis, a.resolution) - cellSizeOf(options.axis, b.resolution),
     );
     if (ordered.length < 3) continue;
-    for (const receiver of ordered[0].receivers) {
-      const at = ordered.map((run) =>
-        run.receivers.find((r) => r.range_m === receiver.range_m && r.height_m === receiver.height_m),
-      );
-      if (at.some((r) => r === undefined)) continue;
+    ordered[0].receivers.forEach((receiver, k) => {
+      // The same receiver in each run: at the same place in the list when the runs share their receivers (the
+      // usual case), else looked up.
+      const at = ordered.map((run) => {
+        const same = run.receivers[k];
+        return same !== undefined && same.range_m === receiver.range_m && same.height_m === receiver.height_m
+          ? same
+          : run.receivers.find((r) => r.range_m === receiver.range_m && r.height_m === receiver.height_m);
+      });
+      if (at.some((r) => r === undefined)) return;
       for (const output of ConvergenceOutputSchema.options) {
         const raw = at.map((r) => r![output]);
         const values = output === 'ez_phase_deg' ? raw.map((v) => unwrapNearDeg(v, raw[0])) : raw;
@@ -291,7 +296,7 @@ export function convergenceTable(runs: readonly ConvergenceRun[], options: Conve
           advice: result.advice,
         });
       }
-    }
+    });
   }
   return rows;
 }

@@ -1,6 +1,7 @@
 // The durable ledger of a sweep: every job, its status and its result, in one SQLite file (`ledger.sqlite`, WAL
 // journal, full sync) in the output folder. A result is in it completely or not at all (one transaction each), and
 // numbers come back bit for bit (exact JSON text). Knows storage only: nothing of queues, solvers or Parquet.
+import { randomUUID } from 'node:crypto';
 import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import Database from 'better-sqlite3';
@@ -39,6 +40,14 @@ class ForeignLedgerError extends UserError {
 const LEDGER_FORMAT = '1';
 /** Rows fetched per page by `results()`; pages keep memory bounded and the connection free between them. */
 const RESULTS_PAGE = 256;
+
+/** A stored result as its JSON text, with its job, the job's index and the result's row in the ledger. */
+export interface StoredResultText {
+  row: number;
+  job_id: string;
+  idx: number;
+  result_json: string;
+}
 
 /** A row of the jobs table: the job schema's fields, with the index and the JSON columns under their SQL names. */
 type JobRow = Omit<LedgerJob, 'index' | 'params' | 'case'> & { idx: number; params_json: string; case_json: string };
@@ -121,6 +130,11 @@ export class Ledger {
       const first = String((e as Error).message).split('\n')[0];
       throw new UserError(`${path}: cannot open the ledger (${first}); move the file away or use another --out folder`, 'loamwave.ledger.unreadable');
     }
+    // An identity of this ledger file, so that what was written from it (the field segments) is never taken for
+    // what another ledger holds; a ledger from before the identity existed gets one now.
+    if (db.prepare(`SELECT 1 FROM meta WHERE key = 'ledger_id'`).get() === undefined) {
+      db.prepare(`INSERT OR IGNORE INTO meta (key, value) VALUES ('ledger_id', ?)`).run(randomUUID());
+    }
     const format = db.prepare<[], { value: string }>(`SELECT value FROM meta WHERE key = 'format'`).get();
     if (format === undefined) db.prepare(`INSERT INTO meta (key, value) VALUES ('format', ?)`).run(LEDGER_FORMAT);
     else if (format.value !== LEDGER_FORMAT) {
@@ -162,12 +176,17 @@ export class Ledger {
       retryFailed: db.prepare(`UPDATE jobs SET status = 'pending', error = NULL, attempts = 0, finished_at_ms = NULL WHERE status = 'failed'`),
       resetQueued: db.prepare(`UPDATE jobs SET status = 'pending' WHERE status IN ('running', 'queued')`),
       result: db.prepare<[string], { result_json: string }>(`SELECT result_json FROM results WHERE job_id = ?`),
-      textsPage: db.prepare<[number, number, string, number], { job_id: string; idx: number; result_json: string }>(
-        `SELECT jobs.job_id, jobs.idx, results.result_json FROM jobs JOIN results USING (job_id)
-         WHERE (jobs.idx > ?) OR (jobs.idx = ? AND jobs.job_id > ?)
-         ORDER BY jobs.idx, jobs.job_id LIMIT ?`,
-      ),
       total: db.prepare<[], { n: number }>(`SELECT COUNT(*) AS n FROM jobs`),
+      ledgerId: db.prepare<[], { value: string }>(`SELECT value FROM meta WHERE key = 'ledger_id'`),
+      resultRows: db.prepare<[], { job_id: string; row: number }>(`SELECT job_id, rowid AS row FROM results`),
+      textsAfter: db.prepare<[number, number], StoredResultText>(
+        `SELECT results.rowid AS row, results.job_id, jobs.idx, results.result_json FROM results JOIN jobs USING (job_id)
+         WHERE results.rowid > ? ORDER BY results.rowid LIMIT ?`,
+      ),
+      textsOf: db.prepare<[string], StoredResultText>(
+        `SELECT results.rowid AS row, results.job_id, jobs.idx, results.result_json FROM results JOIN jobs USING (job_id)
+         WHERE results.job_id IN (SELECT value FROM json_each(?)) ORDER BY results.rowid`,
+      ),
       finishedSince: db.prepare<[number], { t: number }>(
         `SELECT finished_at_ms AS t FROM jobs INDEXED BY jobs_by_finish WHERE finished_at_ms >= ? AND status IN ('done', 'failed')`,
       ),
@@ -304,20 +323,34 @@ export class Ledger {
     }
   }
 
+  /** This ledger's identity (a random id stored in it when it was first opened). */
+  id(): string {
+    return this.stmt.ledgerId.get()!.value;
+  }
+
   /**
-   * Every stored result as its JSON text (not parsed), with its job's id and index, in index order, a page at a
-   * time: for writers that hand the text on (the fields table) without building objects.
+   * The row of each stored result, by job id: a result is written once and never changed (insert-or-ignore), so
+   * the pair (job, row) names one result for as long as this ledger lives.
    */
-  *resultTexts(): Generator<{ job_id: string; idx: number; result_json: string }, void, undefined> {
-    let idx = -1;
-    let id = '';
+  resultRows(): Map<string, number> {
+    return new Map(this.stmt.resultRows.all().map((r) => [r.job_id, r.row]));
+  }
+
+  /** Stored results committed after row `afterRow`, as JSON texts, in commit order, a page at a time. */
+  *resultTextsAfter(afterRow: number): Generator<StoredResultText, void, undefined> {
+    let row = afterRow;
     for (;;) {
-      const page = this.stmt.textsPage.all(idx, idx, id, RESULTS_PAGE);
+      const page = this.stmt.textsAfter.all(row, RESULTS_PAGE);
       yield* page;
       if (page.length < RESULTS_PAGE) return;
-      const last = page[page.length - 1];
-      idx = last.idx;
-      id = last.job_id;
+      row = page[page.length - 1].row;
+    }
+  }
+
+  /** The stored results of these jobs (those that have one), as JSON texts, a page of ids at a time. */
+  *resultTextsOf(jobIds: readonly string[]): Generator<StoredResultText, void, undefined> {
+    for (let k = 0; k < jobIds.length; k += RESULTS_PAGE) {
+      yield* this.stmt.textsOf.all(JSON.stringify(jobIds.slice(k, k + RESULTS_PAGE)));
     }
   }
 

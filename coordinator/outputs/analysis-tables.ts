@@ -8,12 +8,15 @@ import { z } from 'zod';
 import { ConvergenceRowSchema } from '../../schemas/analysis-rows.js';
 import { SensitivityRowSchema } from '../../schemas/analysis-rows.js';
 import { columnsFromRowSchema } from './columns.js';
-import { appendRow, sqlName, type CellValue, type DuckTableStore } from './parquet.js';
+import { appendRow, sqlName, type CellValue, type ColumnSpec, type DuckTableStore } from './parquet.js';
+import type { DuckDBAppender } from '@duckdb/node-api';
 import { computeConvergenceOutOfCore, computeSensitivityOutOfCore } from '../analysis/compute-tables.js';
 import { openFieldReader, readReportFolder } from '../analysis/read-tables.js';
 import { SOLVER_VERSION } from '../../solver/version.js';
 
 const ROW_NUMBER = 'loamwave_row_number';
+/** Rows appended between commits of an analysis table (a Loamwave choice: a few MB held at most). */
+const FLUSH_ROWS = 16_384;
 
 /**
  * A table of a flat row schema, filled a batch of rows at a time into the store, then written as one Parquet
@@ -21,46 +24,69 @@ const ROW_NUMBER = 'loamwave_row_number';
  */
 export class RowTable {
   private rows = 0;
+  private pending = 0;
+  private appender: DuckDBAppender | null = null;
+  private readonly withNumber: ColumnSpec[];
   private constructor(
     private readonly store: DuckTableStore,
     private readonly table: string,
     private readonly columns: ReturnType<typeof columnsFromRowSchema>,
-  ) {}
+  ) {
+    this.withNumber = [...columns, { name: ROW_NUMBER, type: 'INT64' }];
+  }
 
   static async open(store: DuckTableStore, table: string, schema: z.ZodObject): Promise<RowTable> {
     const columns = columnsFromRowSchema(schema);
     // A row number, so the file keeps the order the rows were computed in (the store may reorder otherwise).
-    await store.createTable(table, [...columns, { name: ROW_NUMBER, type: 'INT64' }]);
+    await store.createTable(table, [...columns, { name: ROW_NUMBER, type: 'INT64' }], { temp: true });
     return new RowTable(store, table, columns);
   }
 
+  /**
+   * Append rows through one appender, committed every FLUSH_ROWS rows: a commit of the disk-backed table has a
+   * fixed cost (measured: a commit per convergence group was most of the analysis time at 1 M field rows), and
+   * the rows held between commits bound the memory.
+   */
   async append(rows: readonly object[]): Promise<void> {
-    const appender = await this.store.appender(this.table);
-    try {
-      for (const row of rows) {
-        const r = row as Record<string, CellValue>;
-        const out: Record<string, CellValue> = {};
-        for (const c of this.columns) {
-          const v = r[c.name];
-          if (typeof v === 'number' && !Number.isFinite(v)) {
-            if (!c.nullable) throw new Error(`${this.table}: column ${c.name}: only finite numbers are written (got ${v})`);
-            out[c.name] = null;
-          } else out[c.name] = v;
-        }
-        out[ROW_NUMBER] = this.rows++;
-        appendRow(appender, [...this.columns, { name: ROW_NUMBER, type: 'INT64' }], out);
+    this.appender ??= await this.store.appender(this.table);
+    const out: Record<string, CellValue> = {};
+    for (const row of rows) {
+      const r = row as Record<string, CellValue>;
+      for (const c of this.columns) {
+        const v = r[c.name];
+        if (typeof v === 'number' && !Number.isFinite(v)) {
+          if (!c.nullable) throw new Error(`${this.table}: column ${c.name}: only finite numbers are written (got ${v})`);
+          out[c.name] = null;
+        } else out[c.name] = v;
       }
-      appender.flushSync();
-    } finally {
-      appender.closeSync();
+      out[ROW_NUMBER] = this.rows++;
+      appendRow(this.appender, this.withNumber, out);
+      if (++this.pending >= FLUSH_ROWS) {
+        this.appender.flushSync();
+        this.pending = 0;
+      }
     }
   }
 
   /** Write the table to `path` (a temporary file beside it, renamed); returns its row count. */
   async write(path: string): Promise<number> {
+    this.closeAppender();
     await this.store.copyToParquet(`SELECT * EXCLUDE (${sqlName(ROW_NUMBER)}) FROM ${sqlName(this.table)} ORDER BY ${sqlName(ROW_NUMBER)}`, path);
     await this.store.conn.run(`DROP TABLE ${sqlName(this.table)}`);
     return this.rows;
+  }
+
+  /** Commit what is appended and let the appender go (also on failure, before the store closes). */
+  closeAppender(): void {
+    const a = this.appender;
+    this.appender = null;
+    if (a) {
+      try {
+        a.flushSync();
+      } finally {
+        a.closeSync();
+      }
+    }
   }
 }
 
@@ -80,13 +106,16 @@ export async function writeAnalysisTables(
 ): Promise<{ convergence: number; sensitivity: number | null }> {
   const tables = await readReportFolder(dir, { fields: false });
   const reader = await openFieldReader(dir, scratchDir);
+  const open: RowTable[] = [];
   try {
     const convergence = await RowTable.open(store, 'convergence', ConvergenceRowSchema);
+    open.push(convergence);
     await computeConvergenceOutOfCore(tables, reader, { generatedBy: `loamwave ${SOLVER_VERSION}` }, (rows) => convergence.append(rows));
     let sensitivityRows: number | null = null;
     let sensitivity: RowTable | null = null;
     if (options.sensitivity) {
       sensitivity = await RowTable.open(store, 'sensitivity', SensitivityRowSchema);
+      open.push(sensitivity);
       await sensitivity.append(await computeSensitivityOutOfCore(tables, reader, { warnings: [] }));
     }
     // Both computed before either is renamed in: a failure in the second leaves neither new file.
@@ -94,6 +123,14 @@ export async function writeAnalysisTables(
     if (sensitivity) sensitivityRows = await sensitivity.write(join(dir, ANALYSIS_FILES.sensitivity));
     return { convergence: convergenceRows, sensitivity: sensitivityRows };
   } finally {
+    // after a failure only (written tables have let theirs go); the first error is the one reported
+    for (const t of open) {
+      try {
+        t.closeAppender();
+      } catch {
+        /* the store is closed next */
+      }
+    }
     reader.close();
   }
 }

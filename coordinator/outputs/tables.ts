@@ -17,7 +17,7 @@ import { ANALYSIS_FILES, writeAnalysisTables } from './analysis-tables.js';
 import { DuckTableStore, firstLine, ParquetTableWriter, type CellValue, type ColumnSpec } from './parquet.js';
 import { UserError } from '../../schemas/errors.js';
 import { ExitCode } from '../../schemas/exit-codes.js';
-import { writeFieldParts } from './fields.js';
+import { FieldSegments } from './fields.js';
 import { expandSweep, type ExpandedJob } from '../sweep/expand.js';
 
 export interface OutputOptions {
@@ -31,6 +31,8 @@ export interface OutputOptions {
   readonly analysis?: boolean;
   /** Also write sensitivity.parquet (needs `analysis`). @defaultValue true */
   readonly sensitivityTable?: boolean;
+  /** Called as each stage ends (runs, fields, analysis), for the benchmarks. */
+  readonly onStage?: (name: 'runs' | 'fields' | 'analysis') => void;
 }
 
 export interface OutputSummary {
@@ -151,6 +153,7 @@ export async function writeOutputs(
   removeStaleStaging(outDir);
   const staging = join(outDir, `${STAGING_PREFIX}${process.pid}-${Date.now().toString(36)}`);
   mkdirSync(staging);
+  const stage = (name: 'runs' | 'fields' | 'analysis') => options.onStage?.(name);
   try {
     // runs.parquet: every job of the sweep, in expansion order, with whatever the ledger knows of it.
     const runs = await ParquetTableWriter.open(join(staging, OUTPUT_FILES.runs), runColumns(params), { rowGroupRows });
@@ -160,9 +163,11 @@ export async function writeOutputs(
       await runs.append(runRow(job, row, result, params));
     }
     await runs.close();
+    stage('runs');
 
-    // fields/part=<n>/: receivers of done jobs, from the ledger's result texts (never parsed here) into a
-    // disk-backed DuckDB table, then one Parquet file per partition; memory is bounded by DuckDB's limit.
+    // fields/part=<n>/: receivers of done jobs, from the segments written while the jobs ran, after the jobs no
+    // segment holds yet are written as segments too (the ledger's result texts, never parsed here, through a
+    // DuckDB table); memory is bounded by DuckDB's limit and a segment's size.
     const byId = new Map(jobs.map((j) => [j.job_id, j]));
     const jobsPerPart = jobsPerPartFor(jobs, options.fieldRowsPerFile ?? FIELD_ROWS_PER_FILE);
     const fieldsDir = join(staging, OUTPUT_FILES.fields);
@@ -171,13 +176,20 @@ export async function writeOutputs(
     let fieldRows = 0;
     let parts: number[];
     try {
-      const written = await writeFieldParts(store, ledger.resultTexts(), byId, params, jobsPerPart, fieldsDir);
+      const segments = new FieldSegments(outDir, sweepText, byId, params, ledger.id());
+      const resultRows = ledger.resultRows();
+      const kept = segments.scan(resultRows);
+      const covered = new Set(kept.flatMap((s) => s.jobs.map(([id]) => id)));
+      const missing = jobs.filter((j) => resultRows.has(j.job_id) && !covered.has(j.job_id)).map((j) => j.job_id);
+      const added = missing.length > 0 ? await segments.write(store, ledger.resultTextsOf(missing)) : [];
+      const written = await segments.assemble(store, [...kept, ...added], jobsPerPart, fieldsDir);
       fieldRows = written.rows;
       parts = written.parts;
     } finally {
       store.close();
     }
 
+    stage('fields');
     writeFileSync(join(staging, sweepCopyName(sweepText)), sweepText);
     // The analysis files (and a sweep copy of the other format) of an earlier write describe other runs: they
     // leave with the old tables.
@@ -208,6 +220,7 @@ export async function writeOutputs(
     } finally {
       analysisStore.close();
     }
+    stage('analysis');
     summary.convergenceRows = analysis.convergence;
     summary.sensitivityRows = analysis.sensitivity;
     return recorded(summary);
