@@ -111,12 +111,13 @@ interface RunOutcome {
 }
 
 async function runEmbedded(run: SweepRun, opts: RunCliOptions): Promise<RunOutcome> {
-  const [{ LocalDispatch }, { ProgressBar }, { SweepProgress }, { onStopSignals }, { longestFirst }] = await Promise.all([
+  const [{ LocalDispatch }, { ProgressBar }, { SweepProgress }, { onStopSignals }, { longestFirst }, { LiveFieldSegments }] = await Promise.all([
     import('../dispatch/local-pool.js'),
     import('../dispatch/progress-bar.js'),
     import('../dispatch/progress.js'),
     import('../dispatch/stop-signals.js'),
     import('../ledger/sweep-run.js'),
+    import('../outputs/live-segments.js'),
   ]);
   const { ledger } = run;
   // The local queue died with any earlier process: whatever was running or queued is pending again.
@@ -124,12 +125,17 @@ async function runEmbedded(run: SweepRun, opts: RunCliOptions): Promise<RunOutco
   const todo = longestFirst(ledger.list('pending'), run.costById);
   const progress = new SweepProgress(ledger, run.costById);
   const bar = new ProgressBar({ stream: process.stderr });
+  // field rows written while the jobs run, so the outputs at the end have only the last ones to write
+  const segments = new LiveFieldSegments(run, { warn: (line) => process.stderr.write(`\n${line}\n`) });
   const dispatch = new LocalDispatch({
     ledger,
     jobs: todo,
     threads: opts.workers,
     maxMemoryBytes: opts.maxMemoryMib === undefined ? undefined : mibToBytes(opts.maxMemoryMib),
-    onFinished: (id) => progress.finished(id),
+    onFinished: (id, outcome) => {
+      progress.finished(id);
+      if (outcome === 'done') segments.jobDone(id);
+    },
     onChange: (running) => bar.update(progress.state(running)),
   });
   const dispose = onStopSignals(
@@ -148,6 +154,7 @@ async function runEmbedded(run: SweepRun, opts: RunCliOptions): Promise<RunOutco
     summary = await dispatch.run();
   } finally {
     dispose();
+    await segments.close();
   }
   const solvingS = (performance.now() - solvingFrom) / 1000;
   bar.finish(progress.state(new Map()));

@@ -17,6 +17,7 @@ import { columnsFromRowSchema } from './columns.js';
 import { appendRow as appendRowTo, sqlName, sqlString, type CellValue, type ColumnSpec, type DuckTableStore } from './parquet.js';
 import type { ExpandedJob } from '../sweep/expand.js';
 import type { StoredResultText } from '../ledger/ledger.js';
+import { SEGMENT_ROWS } from './segment-rows.js';
 
 /** A parameter column of the fields table: its name and type, and where the job's value is. */
 export type ParamColumn = ColumnSpec & { path: string };
@@ -24,8 +25,6 @@ export type ParamColumn = ColumnSpec & { path: string };
 /** Folder of the segments inside the output folder. */
 export const SEGMENTS_DIR = '.loamwave-segments';
 const SEGMENT_FORMAT = 1;
-/** Field rows per segment file (a Loamwave choice: about 3 MB of ZSTD Parquet, some 15 MB of result text). */
-export const SEGMENT_ROWS = 50_000;
 /** Jobs appended between commits of the raw table (about 5 MB of result text at 500 receivers). */
 const FLUSH_EVERY_JOBS = 32;
 const IDX = 'loamwave_idx';

@@ -135,6 +135,8 @@ const DUCK_TYPES: Record<ColumnType, string> = { DOUBLE: 'DOUBLE', INT64: 'BIGIN
 export interface DuckStoreOptions {
   /** DuckDB's memory limit (it spills to `dir` beyond it). @defaultValue '640MB' (a Loamwave choice: with Node's own few hundred MB the output stage stays under 1 GiB; 384MB ran out unnesting a 250,000-row partition) */
   readonly memoryLimit?: string;
+  /** DuckDB's threads. @defaultValue DuckDB's own (one per core) */
+  readonly threads?: number;
 }
 
 /** The first line of an error's message (DuckDB's messages run over several lines). */
@@ -164,6 +166,7 @@ export class DuckTableStore {
       temp_directory: join(dir, 'spill'),
       // Every query that writes a file orders its rows; not keeping insertion order lets DuckDB spill more freely.
       preserve_insertion_order: 'false',
+      ...(options.threads !== undefined ? { threads: String(options.threads) } : {}),
     });
     return new DuckTableStore(db, await db.connect(), dir);
   }

@@ -20,6 +20,9 @@ import { ExitCode } from '../../schemas/exit-codes.js';
 import { FieldSegments } from './fields.js';
 import { expandSweep, type ExpandedJob } from '../sweep/expand.js';
 
+/** What runs.parquet takes from a result. */
+type RunResultSummary = Pick<JobResult, 'grid' | 'wall_time_s' | 'solver_version' | 'warnings'>;
+
 export interface OutputOptions {
   /** The sweep's jobs if already expanded (saves expanding again). */
   readonly jobs?: readonly ExpandedJob[];
@@ -92,7 +95,7 @@ function paramCells(job: ExpandedJob, params: ReadonlyArray<ColumnSpec & { path:
   return out;
 }
 
-function runRow(job: ExpandedJob, row: LedgerJob | undefined, result: JobResult | undefined, params: ReadonlyArray<ColumnSpec & { path: string }>): Record<string, CellValue> {
+function runRow(job: ExpandedJob, row: LedgerJob | undefined, result: RunResultSummary | undefined, params: ReadonlyArray<ColumnSpec & { path: string }>): Record<string, CellValue> {
   const g = result?.grid;
   // Typed as the schema's row, so a column added to RunFactsSchema must be filled here (null when unknown).
   const facts: { [K in keyof RunFacts]: RunFacts[K] | undefined } = {
@@ -159,7 +162,7 @@ export async function writeOutputs(
     const runs = await ParquetTableWriter.open(join(staging, OUTPUT_FILES.runs), runColumns(params), { rowGroupRows });
     for (const job of jobs) {
       const row = ledger.get(job.job_id);
-      const result = row?.status === 'done' ? ledger.result(job.job_id) : undefined;
+      const result = row?.status === 'done' ? ledger.resultSummary(job.job_id) : undefined;
       await runs.append(runRow(job, row, result, params));
     }
     await runs.close();
@@ -260,9 +263,23 @@ function publish(staging: string, outDir: string, files: readonly string[], fold
   renameSync(join(staging, folder), target);
 }
 
-/** Staging folders left by a crashed writer hold nothing anyone reads: remove them. */
+/**
+ * Staging folders left by a crashed writer hold nothing anyone reads: remove them, and the scratch folders of
+ * live segment writers (`.loamwave-work-<pid>`) whose process is gone.
+ */
 function removeStaleStaging(outDir: string): void {
   for (const name of readdirSync(outDir)) {
     if (name.startsWith(STAGING_PREFIX)) rmSync(join(outDir, name), { recursive: true, force: true });
+    const work = /^\.loamwave-work-(\d+)$/.exec(name);
+    if (work && Number(work[1]) !== process.pid && !processAlive(Number(work[1]))) rmSync(join(outDir, name), { recursive: true, force: true });
+  }
+}
+
+function processAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code === 'EPERM';
   }
 }

@@ -7,6 +7,7 @@ import { activeProgress, collectOnce, followCollection, retireQueue, type Collec
 import { submitSweep, type SubmitSummary } from './submit.js';
 import { QueueHandles, queueTarget, type QueueSettings } from './target.js';
 import { openLedgerFor, prepareSweep, type SweepRun } from '../ledger/sweep-run.js';
+import { LiveFieldSegments } from '../outputs/live-segments.js';
 import { onStopSignals } from '../dispatch/stop-signals.js';
 import { CLOSE_LIMIT_MS, exitIfStillHeld } from '../../worker/redis-connection.js';
 import { SweepProgress } from '../dispatch/progress.js';
@@ -101,10 +102,13 @@ async function session(
 
   const progress = new SweepProgress(ledger, run.costById);
   const bar = how.progress ? new ProgressBar({ stream: process.stderr }) : undefined;
+  // field rows written while the workers solve (a failed job's id counts nothing: it has no result to write)
+  const segments = new LiveFieldSegments(run, { warn: (line) => process.stderr.write(`\n${line}\n`) });
   const complete = await followCollection(handles, ledger, {
     signal,
     onRound: async (s) => {
       add(s);
+      for (const id of s.finishedIds) if (ledger.get(id)?.status === 'done') segments.jobDone(id);
       if (!bar) return;
       for (const id of s.finishedIds) progress.finished(id);
       bar.update(progress.state(await activeProgress(handles)));
@@ -114,6 +118,7 @@ async function session(
       await submitSweep(handles, ledger, run.costById);
     },
   });
+  await segments.close();
   bar?.finish(progress.state(new Map()));
   if (complete) await retireQueue(handles);
   reportRefusals(totals.refused);
