@@ -11,6 +11,7 @@ import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { JobResult } from '../schemas/result.js';
+import type { OutputSummary } from '../coordinator/outputs/tables.js';
 import { C0 } from '../solver/constants.js';
 import { SOLVER_VERSION } from '../solver/version.js';
 
@@ -84,22 +85,42 @@ function madeUpResult(jobId: string, frequencyHz: number, sigma: number, cpw: nu
   };
 }
 
-async function childFill(dir: string): Promise<void> {
+/**
+ * Fill the ledger as a run would, a hundred results at a time in longest-first order (finest grid first), and
+ * with `live` write the field segments as a run does while its jobs finish (here one after the other, as the
+ * time they take is reported apart).
+ */
+async function childFill(dir: string, live: boolean): Promise<void> {
   const { loadSweep } = await import('../coordinator/sweep/file.js');
   const { expandSweep } = await import('../coordinator/sweep/expand.js');
   const { Ledger } = await import('../coordinator/ledger/ledger.js');
-  const { sweep } = loadSweep(join(dir, 'sweep.yaml'));
+  const { LiveFieldSegments } = await import('../coordinator/outputs/live-segments.js');
+  const { sweep, text } = loadSweep(join(dir, 'sweep.yaml'));
   const jobs = expandSweep(sweep, 'sweep.yaml');
   const ledger = Ledger.open(dir);
   ledger.addJobs(jobs);
-  const batch: JobResult[] = [];
-  for (const j of jobs) {
-    const p = j.params as Record<string, number>;
-    batch.push(madeUpResult(j.job_id, p.frequency_hz, p['ground.segments[0].conductivity_s_per_m'], p['grid.cells_per_wavelength'], j.case.receivers.ranges_m));
-    if (batch.length === 100) ledger.commitResults(batch.splice(0));
+  const segments = live ? new LiveFieldSegments({ ledger, sweep, text, outDir: join(dir, 'out'), jobs }) : null;
+  const cpw = (j: (typeof jobs)[number]) => (j.params as Record<string, number>)['grid.cells_per_wavelength'];
+  const order = [...jobs].sort((a, b) => cpw(b) - cpw(a) || a.index - b.index);
+  let segmentSeconds = 0;
+  for (let k = 0; k < order.length; k += 100) {
+    const batch = order.slice(k, k + 100);
+    ledger.commitResults(
+      batch.map((j) => {
+        const p = j.params as Record<string, number>;
+        return madeUpResult(j.job_id, p.frequency_hz, p['ground.segments[0].conductivity_s_per_m'], p['grid.cells_per_wavelength'], j.case.receivers.ranges_m);
+      }),
+    );
+    if (segments) {
+      const t = performance.now();
+      for (const j of batch) segments.jobDone(j.job_id);
+      await segments.idle();
+      segmentSeconds += (performance.now() - t) / 1000;
+    }
   }
-  ledger.commitResults(batch);
+  await segments?.close();
   ledger.close();
+  process.stdout.write(JSON.stringify({ segmentSeconds, segments: segments?.written ?? 0 }) + '\n');
 }
 
 /**
@@ -135,7 +156,7 @@ async function childOutputs(dir: string): Promise<void> {
   let clock = t0;
   let peak = 0;
   const sampler = setInterval(() => (peak = Math.max(peak, process.memoryUsage().rss)), 50);
-  const summary = await writeOutputs(ledger, sweep, text, join(dir, 'out'), {
+  const summary: OutputSummary & { reportBytes?: number } = await writeOutputs(ledger, sweep, text, join(dir, 'out'), {
     onStage: (name) => {
       const now = performance.now();
       stageSeconds[name] = (now - clock) / 1000;
@@ -144,8 +165,15 @@ async function childOutputs(dir: string): Promise<void> {
       peak = 0;
     },
   });
+  // the report, as `run` writes it after the tables (from the tables just written)
+  const { writeReport } = await import('../coordinator/report/write.js');
+  const report = await writeReport(join(dir, 'out'));
+  const now = performance.now();
+  stageSeconds.report = (now - clock) / 1000;
+  stageRssMiB.report = Math.max(peak, process.memoryUsage().rss) / 2 ** 20;
   clearInterval(sampler);
-  const seconds = (performance.now() - t0) / 1000;
+  const seconds = (now - t0) / 1000;
+  summary.reportBytes = report.bytes;
   ledger.close();
   process.stdout.write(JSON.stringify({ seconds, summary, stageSeconds, stageRssMiB }) + '\n');
 }
@@ -198,7 +226,7 @@ async function parent(sizes: string[]): Promise<void> {
     if (!m) throw new Error(`bench:scale: size ${s}: give field rows as 100k, 1M or a number`);
     return Math.round(Number(m[1]) * (m[2].toLowerCase() === 'k' ? 1e3 : m[2].toLowerCase() === 'm' ? 1e6 : 1));
   };
-  console.log(`bench:scale, ${new Date().toISOString()}, node ${process.version}; targets: output stage peak RSS <= 1024 MiB, status <= 1 s at 20,000 jobs`);
+  console.log(`bench:scale, ${new Date().toISOString()}, node ${process.version}; targets: output stage peak RSS <= 1024 MiB, <= 30 s after the last job at 1 M rows, report <= 5 MB, status <= 1 s at 20,000 jobs`);
   {
     // status at 20,000 jobs (the 10 M-row sweep's job count), on a ledger of jobs without their field rows.
     const dir = mkdtempSync(join(tmpdir(), 'loamwave-scale-status-'));
@@ -217,20 +245,22 @@ async function parent(sizes: string[]): Promise<void> {
     try {
       writeFileSync(join(dir, 'sweep.yaml'), sweepText(size));
       const fill = child(['--fill', dir]);
+      const live = JSON.parse(fill.stdout) as { segmentSeconds: number; segments: number };
       const ledgerBytes = bytesUnder(join(dir, 'ledger.sqlite'));
       const out = child(['--outputs', dir]);
-      const { seconds, summary, stageSeconds, stageRssMiB } = JSON.parse(out.stdout) as { seconds: number; stageSeconds: Record<string, number>; stageRssMiB: Record<string, number>; summary: { runs: number; fieldRows: number; parts: number; convergenceRows: number | null; sensitivityRows: number | null } };
+      const { seconds, summary, stageSeconds, stageRssMiB } = JSON.parse(out.stdout) as { seconds: number; stageSeconds: Record<string, number>; stageRssMiB: Record<string, number>; summary: { runs: number; fieldRows: number; parts: number; convergenceRows: number | null; sensitivityRows: number | null; reportBytes: number } };
       const o = join(dir, 'out');
       const status = statusChild(dir);
       console.log(
         [
           `${summary.fieldRows} field rows (${summary.runs} jobs x ${RECEIVERS} receivers):`,
-          `  ledger fill ${fmt(fill.seconds)} s; ledger ${fmt(ledgerBytes / MiB)} MiB = ${fmt(ledgerBytes / summary.fieldRows, 0)} bytes per field row`,
-          `  output stage ${fmt(seconds)} s (child ${fmt(out.seconds)} s), peak RSS ${fmt(out.maxRssMiB, 0)} MiB; ` +
+          `  ledger fill ${fmt(fill.seconds)} s, of which ${fmt(live.segmentSeconds)} s writing ${live.segments} field segments as a run does while its jobs run (peak RSS ${fmt(fill.maxRssMiB, 0)} MiB); ledger ${fmt(ledgerBytes / MiB)} MiB = ${fmt(ledgerBytes / summary.fieldRows, 0)} bytes per field row`,
+          `  after the last job (tables and report): ${fmt(seconds)} s (child ${fmt(out.seconds)} s), peak RSS ${fmt(out.maxRssMiB, 0)} MiB; ` +
             Object.entries(stageSeconds).map(([k, v]) => `${k} ${fmt(v)} s (peak ~${fmt(stageRssMiB[k], 0)} MiB)`).join(', '),
           `  runs.parquet ${fmt(bytesUnder(join(o, 'runs.parquet')) / MiB, 2)} MiB; fields/ ${fmt(bytesUnder(join(o, 'fields')) / MiB)} MiB in ${summary.parts} parts` +
             ` (${fmt(bytesUnder(join(o, 'fields')) / summary.fieldRows, 1)} bytes per row)`,
           `  convergence.parquet ${summary.convergenceRows} rows, ${fmt(bytesUnder(join(o, 'convergence.parquet')) / MiB, 2)} MiB; sensitivity.parquet ${summary.sensitivityRows} rows, ${fmt(bytesUnder(join(o, 'sensitivity.parquet')) / MiB, 2)} MiB`,
+          `  report.html ${fmt(summary.reportBytes / MiB, 2)} MiB`,
           `  status ${fmt(status.seconds, 2)} s (whole command, node start-up included)`,
         ].join('\n'),
       );
@@ -245,7 +275,7 @@ if (flag === '--sweep') {
   // for profiling one stage by hand: `--sweep DIR ROWS`, then `--fill DIR`, then `node --cpu-prof … --outputs DIR`
   writeFileSync(join(arg, 'sweep.yaml'), sweepText(Number(size)));
 } else if (flag === '--fill' || flag === '--outputs' || flag === '--status-ledger') {
-  await (flag === '--fill' ? childFill(arg) : flag === '--outputs' ? childOutputs(arg) : childStatusLedger(arg));
+  await (flag === '--fill' ? childFill(arg, size !== 'no-live') : flag === '--outputs' ? childOutputs(arg) : childStatusLedger(arg));
   process.stdout.write(JSON.stringify({ maxRSSkB: process.resourceUsage().maxRSS }) + '\n');
 } else {
   await parent(process.argv.slice(2).length > 0 ? process.argv.slice(2) : ['100k', '1M']);

@@ -88,13 +88,15 @@ export function computeConvergence(tables: FolderTables, options: AnalysisOption
 /**
  * The convergence rows out of core: the groups are formed from runs.parquet alone, only the runs the study uses
  * (the first of each resolution level in each group of three levels or more) are read, group after group, and
- * each group's rows go to `sink` before the next is read. Gives the rows `computeConvergence` gives, in order.
+ * each group's rows go to `sink` with the group's number (groups may come in any order). Gives the rows
+ * `computeConvergence` gives, in the order of the group numbers.
  */
 export async function computeConvergenceOutOfCore(
   tables: FolderTables,
   reader: FieldReader,
   options: AnalysisOptions,
-  sink: (rows: readonly ConvergenceRow[]) => Promise<void>,
+  sink: (rows: readonly ConvergenceRow[], group: number) => Promise<void>,
+  limits: { streamMaxRows?: number } = {},
 ): Promise<number> {
   const axisPath = tables.sweep.resolution_axis;
   if (axisPath === undefined) return 0;
@@ -102,7 +104,7 @@ export async function computeConvergenceOutOfCore(
   if (!axis.success) return 0;
   const column = columnNameFor(axisPath);
   const params = paramColumnsOf(tables.sweep);
-  const withFields = await reader.jobsWithFields();
+  const withFields = await reader.rowsPerJob();
   const groups = new Map<string, Map<number, { id: string; run: Omit<ConvergenceRun, 'receivers'> }>>();
   for (const run of tables.runs) {
     const resolution = num(run[column]);
@@ -122,25 +124,81 @@ export async function computeConvergenceOutOfCore(
   const runOf = new Map(order.map((o) => [o.id, o.run]));
   const table = { axis: axis.data, resolutionColumn: column, toleranceDb: options.toleranceDb, tolerancePhaseDeg: options.tolerancePhaseDeg };
   let rows = 0;
-  let group = -1;
-  let batch: ConvergenceRun[] = [];
-  const flush = async () => {
-    if (batch.length === 0) return;
+  const emit = async (g: number, batch: ConvergenceRun[]) => {
     const out = convergenceTable(batch, table);
     rows += out.length;
-    await sink(out);
-    batch = [];
+    await sink(out, g);
   };
+  // The files hold the jobs in index order. When each group's jobs lie close together in that order (the
+  // resolution axis varies fast, as it does when listed last), the rows are streamed as stored and each group is
+  // analysed as soon as its last job is read, holding only the groups under way; otherwise DuckDB sorts the rows
+  // group by group (and spills to disk).
+  const indexOf = new Map(tables.runs.map((r) => [String(r.job_id), num(r.index) ?? 0]));
+  const held = inFlightRows(
+    used.map(([, levels]) => [...levels.values()].map((v) => v.id)),
+    (id) => indexOf.get(id)!,
+    (id) => withFields.get(id)!,
+  );
+  if (held <= (limits.streamMaxRows ?? STREAM_GROUPS_MAX_ROWS)) {
+    const pending = new Map<number, Map<string, FieldRecord[]>>();
+    for await (const { job_id, points } of reader.inFileOrder()) {
+      const g = groupOf.get(job_id);
+      if (g === undefined) continue;
+      let got = pending.get(g);
+      if (!got) pending.set(g, (got = new Map()));
+      got.set(job_id, points);
+      const members = used[g][1];
+      if (got.size === members.size) {
+        pending.delete(g);
+        await emit(g, [...members.values()].map((v) => ({ ...v.run, receivers: got.get(v.id)! })));
+      }
+    }
+    return rows;
+  }
+  let group = -1;
+  let batch: ConvergenceRun[] = [];
   for await (const { job_id, points } of reader.byJob(order.map((o) => o.id))) {
     const g = groupOf.get(job_id)!;
     if (g !== group) {
-      await flush();
+      if (batch.length > 0) await emit(group, batch);
+      batch = [];
       group = g;
     }
     batch.push({ ...runOf.get(job_id)!, receivers: points });
   }
-  await flush();
+  if (batch.length > 0) await emit(group, batch);
   return rows;
+}
+
+/** Most field rows held at once by the streamed convergence study (a Loamwave choice: some 50 MB of points). */
+const STREAM_GROUPS_MAX_ROWS = 500_000;
+
+/**
+ * The most field rows held at once when the jobs are read in index order and each group is held from its first
+ * job's rows until its last job's: an upper bound, summed over the groups under way at each point.
+ */
+export function inFlightRows(groups: ReadonlyArray<readonly string[]>, indexOf: (id: string) => number, rowsOf: (id: string) => number): number {
+  const events: Array<[at: number, rows: number]> = [];
+  for (const ids of groups) {
+    let first = Infinity;
+    let last = -Infinity;
+    let rows = 0;
+    for (const id of ids) {
+      const i = indexOf(id);
+      first = Math.min(first, i);
+      last = Math.max(last, i);
+      rows += rowsOf(id);
+    }
+    events.push([first, rows], [last + 0.5, -rows]);
+  }
+  events.sort((a, b) => a[0] - b[0] || b[1] - a[1]);
+  let now = 0;
+  let most = 0;
+  for (const [, d] of events) {
+    now += d;
+    most = Math.max(most, now);
+  }
+  return most;
 }
 
 /**
@@ -251,7 +309,11 @@ export async function computeSensitivityOutOfCore(tables: FolderTables, reader: 
   const ids = done.map((r) => String(r.job_id));
   const values = new OutputValues(ids);
   const runOf = new Map(done.map((r, k) => [ids[k], r]));
-  for await (const { job_id, points } of reader.byJob(ids)) values.addRun(runOf.get(job_id)!, tables.sweep, points);
+  // Order does not matter here (each value has its place): the rows are streamed as the files hold them.
+  for await (const { job_id, points } of reader.inFileOrder()) {
+    const run = runOf.get(job_id);
+    if (run) values.addRun(run, tables.sweep, points);
+  }
   return sensitivityFrom(tables, done, values.finish(), notes);
 }
 

@@ -142,7 +142,7 @@ function shortText(v: Cell): string {
 }
 
 /** The group of every run for one input, and the groups. Runs without the input form a last group. */
-function groupRuns(runs: readonly SpreadInput[], column: string): { grouping: 'values' | 'bins'; groups: SpreadGroup[]; of: number[] } {
+function groupRuns(runs: ReadonlyArray<Omit<SpreadInput, 'points'>>, column: string): { grouping: 'values' | 'bins'; groups: SpreadGroup[]; of: number[] } {
   const values = runs.map((r) => r.params[column] ?? null);
   const present = values.map((v, k) => ({ v, k })).filter((e) => e.v !== null) as Array<{ v: Exclude<Cell, null>; k: number }>;
   present.sort((a, b) => compareCells(a.v, b.v) || a.k - b.k);
@@ -209,35 +209,80 @@ export function fieldSpread(runs: readonly SpreadInput[], inputs: ReadonlyArray<
   const cols = runs.map((r) => pointColumnsOf(r.points));
   const rangeSet = new Set<number>();
   for (const c of cols) for (let i = 0; i < c.range_m.length; i++) rangeSet.add(c.range_m[i]);
-  const allRanges = [...rangeSet].sort((a, b) => a - b);
-  const plotted = evenIndices(allRanges.length, MAX_RANGES_PER_LINE).map((i) => allRanges[i]);
-  const column = new Map(plotted.map((r, c) => [r, c]));
-  const nc = plotted.length;
-  // Values of every run at the plotted ranges, NaN where a run has no receiver there.
-  const db = new Float64Array(runs.length * nc).fill(Number.NaN);
-  const phase = new Float64Array(runs.length * nc).fill(Number.NaN);
-  // Residual phases one run at a time (a first pass for each run's first value, a second to place them), so only
-  // one run's residuals are held at once.
-  const residualOf = (k: number) => residualPhaseColumns(runs[k].frequency_hz, cols[k].range_m, cols[k].ez_phase_deg);
-  const firsts: number[] = [];
-  for (let k = 0; k < runs.length; k++) {
-    const res = residualOf(k);
-    if (res.value.length > 0) firsts.push(res.value[0]);
+  const builder = new FieldSpreadBuilder(runs, [...rangeSet], inputs);
+  cols.forEach((c, k) => builder.add(k, c));
+  return builder.finish();
+}
+
+/**
+ * The same summary built one run at a time, so that the runs' receivers need not all be in memory: give the runs
+ * (without their points; `points` is not read), every receiver range any run has, and the inputs; then `add` each
+ * run's receivers (sorted by range), in any order, and `finish`. Holds two doubles per run and plotted range.
+ */
+export class FieldSpreadBuilder {
+  private readonly plotted: number[];
+  private readonly column: Map<number, number>;
+  private readonly db: Float64Array;
+  private readonly phase: Float64Array;
+  /** Each run's residual phase at its first receiver (NaN: none yet), for the common reference. */
+  private readonly first: Float64Array;
+
+  constructor(
+    private readonly runs: ReadonlyArray<Omit<SpreadInput, 'points'>>,
+    private readonly ranges: readonly number[],
+    private readonly inputs: ReadonlyArray<{ path: string; column: string }>,
+  ) {
+    const allRanges = [...ranges].sort((a, b) => a - b);
+    this.ranges = allRanges;
+    this.plotted = evenIndices(allRanges.length, MAX_RANGES_PER_LINE).map((i) => allRanges[i]);
+    this.column = new Map(this.plotted.map((r, c) => [r, c]));
+    const nc = this.plotted.length;
+    // Values of every run at the plotted ranges, NaN where a run has no receiver there.
+    this.db = new Float64Array(runs.length * nc).fill(Number.NaN);
+    this.phase = new Float64Array(runs.length * nc).fill(Number.NaN);
+    this.first = new Float64Array(runs.length).fill(Number.NaN);
   }
-  const reference = circularMeanDeg(firsts);
-  for (let k = 0; k < runs.length; k++) {
-    const pts = cols[k];
-    const res = residualOf(k);
-    const shift = res.value.length > 0 ? unwrapNearDeg(res.value[0], reference) - res.value[0] : 0;
+
+  /** Run k's receivers; its residual phases are kept as computed, shifted to the common reference by `finish`. */
+  add(k: number, pts: PointColumns): void {
+    const nc = this.plotted.length;
+    const res = residualPhaseColumns(this.runs[k].frequency_hz, pts.range_m, pts.ez_phase_deg);
+    if (res.value.length > 0) this.first[k] = res.value[0];
     for (let i = 0; i < pts.range_m.length; i++) {
-      const c = column.get(pts.range_m[i]);
-      if (c !== undefined) db[k * nc + c] = pts.ez_db_uv_per_m[i];
+      const c = this.column.get(pts.range_m[i]);
+      if (c !== undefined) this.db[k * nc + c] = pts.ez_db_uv_per_m[i];
     }
     for (let i = 0; i < res.value.length; i++) {
-      const c = column.get(res.range_m[i]);
-      if (c !== undefined) phase[k * nc + c] = res.value[i] + shift;
+      const c = this.column.get(res.range_m[i]);
+      if (c !== undefined) this.phase[k * nc + c] = res.value[i];
     }
   }
+
+  finish(): FieldSummary {
+    const { runs, inputs, plotted, db, phase } = this;
+    const nc = plotted.length;
+    const firsts: number[] = [];
+    for (let k = 0; k < runs.length; k++) if (!Number.isNaN(this.first[k])) firsts.push(this.first[k]);
+    const reference = circularMeanDeg(firsts);
+    for (let k = 0; k < runs.length; k++) {
+      if (Number.isNaN(this.first[k])) continue;
+      const shift = unwrapNearDeg(this.first[k], reference) - this.first[k];
+      for (let c = 0; c < nc; c++) if (!Number.isNaN(phase[k * nc + c])) phase[k * nc + c] += shift;
+    }
+    return summarise(runs, inputs, this.ranges.length, plotted, db, phase);
+  }
+}
+
+/** The groups, bands and drawn runs from the runs' values at the plotted ranges. */
+function summarise(
+  runs: ReadonlyArray<Omit<SpreadInput, 'points'>>,
+  inputs: ReadonlyArray<{ path: string; column: string }>,
+  rangeCount: number,
+  plotted: readonly number[],
+  db: Float64Array,
+  phase: Float64Array,
+): FieldSummary {
+  const nc = plotted.length;
   const drawnIndex = evenIndices(runs.length, MAX_DRAWN_RUNS);
   const drawn: DrawnRun[] = drawnIndex.map((k) => ({
     job_id: runs[k].job_id,
@@ -287,7 +332,7 @@ export function fieldSpread(runs: readonly SpreadInput[], inputs: ReadonlyArray<
   });
   return {
     runs: runs.length,
-    ranges: allRanges.length,
+    ranges: rangeCount,
     ranges_plotted: nc,
     quantile_method: QUANTILE_METHOD,
     band: [BAND_LOW_P, BAND_HIGH_P],

@@ -1,7 +1,7 @@
 // Reads a sweep's output folder for the analysis and the report: the sweep copy, runs.parquet, the Hive-partitioned fields/ table
 // and, when present, convergence.parquet and sensitivity.parquet, through DuckDB. Missing pieces the user can
 // supply become one-line UserErrors naming the file and what to do.
-import { existsSync, statSync } from 'node:fs';
+import { existsSync, readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { DuckDBInstance, type DuckDBConnection } from '@duckdb/node-api';
 import { z } from 'zod';
@@ -379,9 +379,45 @@ export interface JobFields {
 export interface FieldReader {
   /** The ids of the jobs that have at least one field row. */
   jobsWithFields(): Promise<Set<string>>;
+  /** The number of field rows of each job that has any. */
+  rowsPerJob(): Promise<Map<string, number>>;
+  /** Every receiver range of the table, once each. */
+  distinctRanges(): Promise<number[]>;
   /** The field rows of these jobs, one job at a time in the order given (jobs without rows are left out). */
   byJob(jobIds: readonly string[]): AsyncGenerator<JobFields, void, undefined>;
+  /**
+   * Every job's field rows, one job at a time in the order the files hold them (partitions in number order, each
+   * in job index order), streamed without sorting: the writer keeps each job's rows together. A job met twice
+   * (files not written by loamwave) is one UserError line.
+   */
+  inFileOrder(): AsyncGenerator<JobFields, void, undefined>;
   close(): void;
+}
+
+/** The fields/ files in partition number order (`part=2` before `part=10`), each folder's files by name. */
+export function fieldFilesInOrder(fieldsDir: string): string[] {
+  const parts = readdirSync(fieldsDir, { withFileTypes: true })
+    .filter((d) => d.isDirectory() && /^part=\d+$/.test(d.name))
+    .map((d) => ({ name: d.name, n: Number(d.name.slice('part='.length)) }))
+    .sort((a, b) => a.n - b.n);
+  return parts.flatMap(({ name }) =>
+    readdirSync(join(fieldsDir, name))
+      .filter((f) => f.endsWith('.parquet'))
+      .sort()
+      .map((f) => join(fieldsDir, name, f)),
+  );
+}
+
+/** One job's points sorted by range, then height (stable), as `fieldsByJob` sorts them. */
+function sortedPoints(points: FieldRecord[]): FieldRecord[] {
+  for (let i = 1; i < points.length; i++) {
+    const a = points[i - 1];
+    const b = points[i];
+    if (!(a.range_m < b.range_m || (a.range_m === b.range_m && a.height_m <= b.height_m))) {
+      return points.sort((x, y) => x.range_m - y.range_m || x.height_m - y.height_m);
+    }
+  }
+  return points;
 }
 
 /**
@@ -408,6 +444,69 @@ export async function openFieldReader(dir: string, scratchDir: string, memoryLim
       } catch (e) {
         throw unreadable(e);
       }
+    },
+    async rowsPerJob() {
+      if (!present) return new Map();
+      try {
+        const r = await conn.runAndReadAll(`SELECT job_id, count(*) AS n FROM read_parquet(${glob}, hive_partitioning = true) GROUP BY job_id`);
+        const [ids, n] = r.getColumns() as [string[], bigint[]];
+        return new Map(ids.map((id, k) => [String(id), Number(n[k])]));
+      } catch (e) {
+        throw unreadable(e);
+      }
+    },
+    async distinctRanges() {
+      if (!present) return [];
+      try {
+        const r = await conn.runAndReadAll(`SELECT DISTINCT range_m FROM read_parquet(${glob}, hive_partitioning = true)`);
+        return r.getColumns()[0].map(Number);
+      } catch (e) {
+        throw unreadable(e);
+      }
+    },
+    async *inFileOrder() {
+      if (!present) return;
+      const files = fieldFilesInOrder(fieldsDir);
+      if (files.length === 0) return;
+      let result;
+      try {
+        // insertion order is kept (DuckDB's default): files in the order listed, rows in file order
+        result = await conn.stream(
+          `SELECT job_id, range_m, height_m, ez_db_uv_per_m, ez_phase_deg FROM read_parquet([${files.map(sqlPath).join(', ')}])`,
+        );
+      } catch (e) {
+        throw unreadable(e);
+      }
+      const seen = new Set<string>();
+      let current: string | null = null;
+      let points: FieldRecord[] = [];
+      for (;;) {
+        let chunk;
+        try {
+          chunk = await result.fetchChunk();
+        } catch (e) {
+          throw unreadable(e);
+        }
+        if (!chunk || chunk.rowCount === 0) break;
+        const [ids, range, height, db_, phase] = chunk.getColumns() as [string[], number[], number[], number[], number[]];
+        for (let i = 0; i < ids.length; i++) {
+          const id = ids[i];
+          if (id !== current) {
+            if (current !== null) yield { job_id: current, points: sortedPoints(points) };
+            if (seen.has(id)) {
+              throw new UserError(
+                `${fieldsDir}: the rows of job ${id} are not together in the files (not written by loamwave?); write the outputs again with loamwave run or loamwave collect`,
+                'loamwave.outputs.unreadable',
+              );
+            }
+            seen.add(id);
+            current = id;
+            points = [];
+          }
+          points.push({ job_id: id, range_m: range[i], height_m: height[i], ez_db_uv_per_m: db_[i], ez_phase_deg: phase[i] });
+        }
+      }
+      if (current !== null) yield { job_id: current, points: sortedPoints(points) };
     },
     async *byJob(jobIds) {
       if (!present || jobIds.length === 0) return;

@@ -17,6 +17,8 @@ import { SOLVER_VERSION } from '../../solver/version.js';
 const ROW_NUMBER = 'loamwave_row_number';
 /** Rows appended between commits of an analysis table (a Loamwave choice: a few MB held at most). */
 const FLUSH_ROWS = 16_384;
+/** Room for each convergence group's rows in the order key (2^26 rows a group; 2^27 groups stay below 2^53). */
+const GROUP_KEY_STRIDE = 2 ** 26;
 
 /**
  * A table of a flat row schema, filled a batch of rows at a time into the store, then written as one Parquet
@@ -43,13 +45,15 @@ export class RowTable {
   }
 
   /**
-   * Append rows through one appender, committed every FLUSH_ROWS rows: a commit of the disk-backed table has a
-   * fixed cost (measured: a commit per convergence group was most of the analysis time at 1 M field rows), and
-   * the rows held between commits bound the memory.
+   * Append rows (numbered firstKey, firstKey + 1, … in the file's order when given, else in the order appended)
+   * through one appender, committed every FLUSH_ROWS rows: a commit has a fixed cost (measured: a commit per
+   * convergence group was most of the analysis time at 1 M field rows), and the rows held between commits bound
+   * the memory.
    */
-  async append(rows: readonly object[]): Promise<void> {
+  async append(rows: readonly object[], firstKey?: number): Promise<void> {
     this.appender ??= await this.store.appender(this.table);
     const out: Record<string, CellValue> = {};
+    let key = firstKey;
     for (const row of rows) {
       const r = row as Record<string, CellValue>;
       for (const c of this.columns) {
@@ -59,7 +63,9 @@ export class RowTable {
           out[c.name] = null;
         } else out[c.name] = v;
       }
-      out[ROW_NUMBER] = this.rows++;
+      // the file's order: the key given (rows appended out of order), else the order of appending
+      out[ROW_NUMBER] = key === undefined ? this.rows : key++;
+      this.rows++;
       appendRow(this.appender, this.withNumber, out);
       if (++this.pending >= FLUSH_ROWS) {
         this.appender.flushSync();
@@ -110,7 +116,8 @@ export async function writeAnalysisTables(
   try {
     const convergence = await RowTable.open(store, 'convergence', ConvergenceRowSchema);
     open.push(convergence);
-    await computeConvergenceOutOfCore(tables, reader, { generatedBy: `loamwave ${SOLVER_VERSION}` }, (rows) => convergence.append(rows));
+    // groups may come in any order: each group's rows are filed under its number, so the file has them in order
+    await computeConvergenceOutOfCore(tables, reader, { generatedBy: `loamwave ${SOLVER_VERSION}` }, (rows, group) => convergence.append(rows, group * GROUP_KEY_STRIDE));
     let sensitivityRows: number | null = null;
     let sensitivity: RowTable | null = null;
     if (options.sensitivity) {
