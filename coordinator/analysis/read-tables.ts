@@ -194,7 +194,7 @@ export const REPORT_INPUTS = {
 } as const;
 
 /** SQL string literal of a path (single quotes doubled). */
-function sqlPath(path: string): string {
+export function sqlPath(path: string): string {
   return `'${path.replace(/'/g, "''")}'`;
 }
 
@@ -218,7 +218,7 @@ async function readRows(conn: DuckDBConnection, sql: string): Promise<{ columns:
  * Run one query over one of the folder's files; a file the engine cannot read (corrupt, truncated, not Parquet)
  * becomes one line naming it and the fix, exit code 2, instead of the engine's multi-line message.
  */
-async function readFile(conn: DuckDBConnection, sql: string, file: string): Promise<{ columns: string[]; rows: Record<string, Cell>[] }> {
+export async function readFile(conn: DuckDBConnection, sql: string, file: string): Promise<{ columns: string[]; rows: Record<string, Cell>[] }> {
   try {
     return await readRows(conn, sql);
   } catch (e) {
@@ -230,7 +230,7 @@ async function readFile(conn: DuckDBConnection, sql: string, file: string): Prom
   }
 }
 
-function parseTable<T>(schema: z.ZodType<T>, rows: Record<string, Cell>[], file: string): T[] {
+export function parseTable<T>(schema: z.ZodType<T>, rows: Record<string, Cell>[], file: string): T[] {
   return rows.map((row, i) => {
     const r = schema.safeParse(row);
     if (!r.success) {
@@ -246,12 +246,12 @@ function parseTable<T>(schema: z.ZodType<T>, rows: Record<string, Cell>[], file:
 
 /**
  * Read every table of an output folder (with `fields: false`, all but the field rows, which may not fit in
- * memory: read those job by job with `openFieldReader`). Throws UserError when the folder is not a sweep's output
+ * memory: read those job by job with `openFieldReader`; with `convergence: false`, without convergence.parquet). Throws UserError when the folder is not a sweep's output
  * folder.
  */
-export async function readReportFolder(dir: string, options: { fields: false }): Promise<FolderTables>;
-export async function readReportFolder(dir: string, options?: { fields?: true }): Promise<FolderTables<FieldColumns>>;
-export async function readReportFolder(dir: string, options: { fields?: boolean } = {}): Promise<FolderTables<FieldRows>> {
+export async function readReportFolder(dir: string, options: { fields: false; convergence?: boolean }): Promise<FolderTables>;
+export async function readReportFolder(dir: string, options?: { fields?: true; convergence?: boolean }): Promise<FolderTables<FieldColumns>>;
+export async function readReportFolder(dir: string, options: { fields?: boolean; convergence?: boolean } = {}): Promise<FolderTables<FieldRows>> {
   if (!existsSync(dir) || !statSync(dir).isDirectory()) {
     throw new UserError(`report: ${dir}: no such folder; give the output folder of a sweep (the one holding runs.parquet)`, CODE);
   }
@@ -288,7 +288,8 @@ export async function readReportFolder(dir: string, options: { fields?: boolean 
       if (!existsSync(path)) return null;
       return parseTable(schema, (await readFile(conn, `SELECT * FROM read_parquet(${sqlPath(path)})`, path)).rows, file);
     };
-    const convergence: ConvergenceRow[] | null = await optional(REPORT_INPUTS.convergence, ConvergenceRowSchema);
+    // `convergence: false`: not read (it may be large; readConvergenceDigest reads what the report needs)
+    const convergence: ConvergenceRow[] | null = options.convergence === false ? null : await optional(REPORT_INPUTS.convergence, ConvergenceRowSchema);
     const sensitivity: SensitivityRow[] | null = await optional(REPORT_INPUTS.sensitivity, SensitivityRowSchema);
     return { sweep, sweepFileName: sweepName, runColumns: runs.columns, runs: runs.rows as RunRecord[], fields, convergence, sensitivity } as FolderTables<FieldRows>;
   } finally {

@@ -16,6 +16,7 @@ import {
   type Notes,
 } from '../analysis/compute-tables.js';
 import { fieldRecordsOf, isFieldColumns, jobColumnsOf, type FieldRows, type FolderTables } from '../analysis/read-tables.js';
+import { convergenceDigestOf, type ConvergenceDigest } from '../analysis/convergence-digest.js';
 import type { Sweep } from '../../schemas/sweep.js';
 import {
   MAX_CONVERGENCE_LINES,
@@ -28,7 +29,7 @@ import {
 } from './data.js';
 import type { SensitivityRow } from '../../schemas/analysis-rows.js';
 import type { Cell } from '../analysis/read-tables.js';
-import { evenIndices, fieldSpread, MAX_DRAWN_RUNS, MAX_RANGES_PER_LINE, pointColumnsOf, type PointColumns, type SpreadInput } from '../analysis/field-spread.js';
+import { evenIndices, fieldSpread, MAX_DRAWN_RUNS, MAX_RANGES_PER_LINE, pointColumnsOf, type FieldSummary, type PointColumns, type SpreadInput } from '../analysis/field-spread.js';
 import { columnNameFor } from '../../schemas/table-rows.js';
 import { unwrapNearDeg } from '../../solver/phase.js';
 
@@ -40,7 +41,7 @@ export const MAX_CURVATURE_LINES = MAX_DRAWN_RUNS;
 
 const RUN_TABLE_COLUMNS = ['job_id', 'status', 'cell_size_m', 'steps', 'cells_total', 'wall_time_s', 'warnings', 'error'];
 
-function warningsOf(tables: FolderTables<FieldRows>, convergence: readonly ConvergenceRow[]): ReportWarning[] {
+function warningsOf(tables: Pick<FolderTables<FieldRows>, 'runs'>, unconverged: readonly ConvergenceRow[]): ReportWarning[] {
   const out: ReportWarning[] = [];
   for (const run of tables.runs) {
     const job = String(run.job_id);
@@ -53,7 +54,7 @@ function warningsOf(tables: FolderTables<FieldRows>, convergence: readonly Conve
       }
     }
   }
-  for (const r of convergence) {
+  for (const r of unconverged) {
     if (r.verdict === 'converged') continue;
     const group = r.group === '{}' ? '' : ` (${describeGroup(r.group)})`;
     out.push({ kind: 'unconverged_mesh', job_id: null, message: `${r.output} at ${r.range_m / 1000} km${group}: ${r.behaviour}; ${r.advice}` });
@@ -61,7 +62,7 @@ function warningsOf(tables: FolderTables<FieldRows>, convergence: readonly Conve
   return out;
 }
 
-function variedOf(tables: FolderTables<FieldRows>): VariedInput[] {
+function variedOf(tables: Pick<FolderTables<FieldRows>, 'runs' | 'sweep'>): VariedInput[] {
   return paramColumnsOf(tables.sweep).map(({ path, column }) => {
     const values = tables.runs.map((r) => r[column]).filter((v) => v !== null && v !== undefined);
     const numbers = values.filter((v): v is number => typeof v === 'number');
@@ -86,7 +87,7 @@ const DEFAULT_EARTH_RADIUS_M = 6_371_000;
  * varied `earth.radius_m`, else the base case's, else the mean radius. Returns every row, sorted by group, radius and
  * range.
  */
-function curvatureOf(tables: FolderTables<FieldRows>, series: readonly SpreadInput[]): CurvatureRow[] {
+export function curvatureOf(tables: Pick<FolderTables<FieldRows>, 'sweep'>, series: readonly SpreadInput[]): CurvatureRow[] {
   const sweep = tables.sweep;
   if (!('geometry' in sweep.vary)) return [];
   const geometryColumn = columnNameFor('geometry');
@@ -156,24 +157,17 @@ function countBy<T>(items: readonly T[], key: (item: T) => string): Record<strin
  * The convergence rows the report holds: all of them up to MAX_TABLE_ROWS; beyond, the table's first rows, the
  * MAX_CONVERGENCE_LINES rows per output the plots draw (evenly chosen) and the counts the summary states.
  */
-function boundedConvergence(rows: readonly ConvergenceRow[]): Pick<ReportData, 'convergence' | 'convergence_summary' | 'convergence_plotted'> {
-  if (rows.length <= MAX_TABLE_ROWS) return { convergence: [...rows], convergence_summary: null, convergence_plotted: null };
-  const byOutput = new Map<string, ConvergenceRow[]>();
-  for (const r of rows) {
-    const list = byOutput.get(r.output) ?? [];
-    list.push(r);
-    byOutput.set(r.output, list);
-  }
+function boundedConvergence(d: ConvergenceDigest): Pick<ReportData, 'convergence' | 'convergence_summary' | 'convergence_plotted'> {
+  if (d.total <= MAX_TABLE_ROWS) return { convergence: d.head, convergence_summary: null, convergence_plotted: null };
   return {
-    convergence: rows.slice(0, MAX_TABLE_ROWS),
-    convergence_summary: {
-      rows: rows.length,
-      verdicts: countBy(rows, (r) => r.verdict),
-      rows_per_output: Object.fromEntries([...byOutput].map(([o, list]) => [o, list.length])),
-    },
-    convergence_plotted: [...byOutput.values()].flatMap((list) => evenIndices(list.length, MAX_CONVERGENCE_LINES).map((i) => list[i])),
+    convergence: d.head,
+    convergence_summary: { rows: d.total, verdicts: d.verdicts, rows_per_output: d.rowsPerOutput },
+    convergence_plotted: d.plotted,
   };
 }
+
+/** The digest limits the report uses. */
+export const DIGEST_LIMITS = { tableRows: MAX_TABLE_ROWS, linesPerOutput: MAX_CONVERGENCE_LINES } as const;
 
 /** The sensitivity rows the report holds: the table's first MAX_TABLE_ROWS and every row of the outputs charted. */
 function boundedSensitivity(rows: readonly SensitivityRow[]): Pick<ReportData, 'sensitivity' | 'sensitivity_total'> {
@@ -188,11 +182,18 @@ function boundedSensitivity(rows: readonly SensitivityRow[]): Pick<ReportData, '
 }
 
 /** At most MAX_TABLE_ROWS warnings of each kind, with the counts when some kind had more. */
-function boundedWarnings(warnings: readonly ReportWarning[]): Pick<ReportData, 'warnings' | 'warning_counts'> {
+function boundedWarnings(warnings: readonly ReportWarning[], unlisted: Readonly<Record<string, number>> = {}): Pick<ReportData, 'warnings' | 'warning_counts'> {
+  // `unlisted`: warnings of a kind counted but not given (the convergence rows beyond those read)
   const counts = countBy(warnings, (w) => w.kind);
+  let total = warnings.length;
+  for (const [kind, n] of Object.entries(unlisted)) {
+    if (n === 0) continue;
+    counts[kind] = (counts[kind] ?? 0) + n;
+    total += n;
+  }
   const seen: Record<string, number> = {};
   const kept = warnings.filter((w) => (seen[w.kind] = (seen[w.kind] ?? 0) + 1) <= MAX_TABLE_ROWS);
-  return { warnings: kept, warning_counts: kept.length < warnings.length ? counts : null };
+  return { warnings: kept, warning_counts: kept.length < total ? counts : null };
 }
 
 function designText(sweep: Sweep): string {
@@ -202,7 +203,7 @@ function designText(sweep: Sweep): string {
   return `${what}, seed ${d.seed}`;
 }
 
-/** The report's data from an output folder's tables. */
+/** The report's data from an output folder's tables, all held in memory. */
 export function assembleReportData(tables: FolderTables<FieldRows>, options: AnalysisOptions): ReportData {
   const sweep = tables.sweep;
   const notes: Notes = { warnings: [] };
@@ -213,24 +214,66 @@ export function assembleReportData(tables: FolderTables<FieldRows>, options: Ana
   const convergence = tables.convergence ?? (sweep.resolution_axis === undefined ? [] : computeConvergence(recordTables(), options));
   const sensitivity = tables.sensitivity ?? computeSensitivity(recordTables(), notes);
   asRecords = null;
-  // A sensitivity table read from the folder was made the same way: say so there too.
-  if (tables.sensitivity !== null) notes.sensitivityNote = finestLevelRuns({ ...tables, fields: [] }, tables.runs.filter((r) => r.status === 'done')).note;
-  const params = paramColumnsOf(sweep);
   const byJob: Map<string, SpreadInput['points']> = isFieldColumns(tables.fields) ? jobColumnsOf(tables.fields) : fieldsByJob(tables.fields);
   // Every done run's fields, for the spread and the curvature pairs; the report keeps only their bounded summaries.
-  const series: SpreadInput[] = tables.runs.flatMap((run) => {
-    const pts = byJob.get(String(run.job_id));
-    if (run.status !== 'done' || !pts) return [];
-    return [{ job_id: String(run.job_id), params: Object.fromEntries(params.map((p) => [p.column, run[p.column] ?? null])), frequency_hz: frequencyOf(run, sweep), points: pts }];
+  const series: SpreadInput[] = spreadRunsOf(tables, new Set(byJob.keys())).map((r) => ({ ...r, points: byJob.get(r.job_id)! }));
+  return assembleFromParts(
+    tables,
+    {
+      convergence: convergenceDigestOf(convergence, DIGEST_LIMITS),
+      sensitivity,
+      fields: fieldSpread(series, reportInputs(tables)),
+      curvature: curvatureOf(tables, series),
+    },
+    notes,
+    options,
+  );
+}
+
+/** The done runs that have field rows, in table order, as the spread and the curvature pairs take them. */
+export function spreadRunsOf(tables: Pick<FolderTables<FieldRows>, 'runs' | 'sweep'>, withFields: ReadonlySet<string>): Array<Omit<SpreadInput, 'points'>> {
+  const params = paramColumnsOf(tables.sweep);
+  return tables.runs.flatMap((run) => {
+    const id = String(run.job_id);
+    if (run.status !== 'done' || !withFields.has(id)) return [];
+    return [{ job_id: id, params: Object.fromEntries(params.map((p) => [p.column, run[p.column] ?? null])), frequency_hz: frequencyOf(run, tables.sweep) }];
   });
+}
+
+/** The inputs given range plots of their own. */
+export function reportInputs(tables: Pick<FolderTables<FieldRows>, 'runs' | 'sweep'>): VariedInput[] {
+  return variedOf(tables).slice(0, MAX_PLOTTED_INPUTS);
+}
+
+/** Whether the curvature pairs need each run's receivers (only when the geometry is varied). */
+export function needsCurvature(sweep: Sweep): boolean {
+  return 'geometry' in sweep.vary;
+}
+
+/** What the report is made of besides the runs table: each part already bounded, or about to be. */
+export interface ReportParts {
+  readonly convergence: ConvergenceDigest;
+  readonly sensitivity: readonly SensitivityRow[];
+  readonly fields: FieldSummary;
+  /** Every flat-against-sphere row (curvatureOf); the report keeps a bounded share. */
+  readonly curvature: readonly CurvatureRow[];
+}
+
+/** The report's data from the runs table and the parts (read out of core, or computed in memory). */
+export function assembleFromParts(tables: Pick<FolderTables<FieldRows>, 'runs' | 'sweep' | 'sweepFileName' | 'runColumns' | 'sensitivity'>, parts: ReportParts, notes: Notes, options: AnalysisOptions): ReportData {
+  const sweep = tables.sweep;
+  // A sensitivity table read from the folder was made the same way: say so there too.
+  if (tables.sensitivity !== null) notes.sensitivityNote = finestLevelRuns({ ...tables, fields: [], convergence: null }, tables.runs.filter((r) => r.status === 'done')).note;
+  const params = paramColumnsOf(sweep);
   const varied = variedOf(tables);
-  const curvature = boundedCurvature(curvatureOf(tables, series));
+  const curvature = boundedCurvature(parts.curvature);
   const count = (status: string) => tables.runs.filter((r) => r.status === status).length;
   const columns = [
     ...RUN_TABLE_COLUMNS.slice(0, 2),
     ...params.map((p) => p.column),
     ...RUN_TABLE_COLUMNS.slice(2),
   ].filter((c) => tables.runColumns.includes(c));
+  const digest = parts.convergence;
   return {
     title: `Loamwave report: ${sweep.name}`,
     generated_by: options.generatedBy,
@@ -249,9 +292,9 @@ export function assembleReportData(tables: FolderTables<FieldRows>, options: Ana
       },
       wall_time_s_total: tables.runs.reduce((s, r) => s + (num(r.wall_time_s) ?? 0), 0),
     },
-    fields: fieldSpread(series, varied.slice(0, MAX_PLOTTED_INPUTS)),
-    ...boundedConvergence(convergence),
-    ...boundedSensitivity(sensitivity),
+    fields: parts.fields,
+    ...boundedConvergence(digest),
+    ...boundedSensitivity(parts.sensitivity),
     sensitivity_note: notes.sensitivityNote ?? null,
     curvature: curvature.rows,
     curvature_total: curvature.total,
@@ -260,6 +303,6 @@ export function assembleReportData(tables: FolderTables<FieldRows>, options: Ana
       rows: tables.runs.slice(0, MAX_TABLE_ROWS).map((r) => columns.map((c) => (c === 'job_id' ? String(r[c]).slice(0, 12) : (r[c] ?? null)))),
       total: tables.runs.length,
     },
-    ...boundedWarnings([...warningsOf(tables, convergence), ...notes.warnings]),
+    ...boundedWarnings([...warningsOf(tables, digest.unconverged), ...notes.warnings], { unconverged_mesh: digest.unconvergedTotal - digest.unconverged.length }),
   };
 }

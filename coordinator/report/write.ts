@@ -5,8 +5,7 @@ import { renameSync, rmSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { UserError } from '../../schemas/errors.js';
 import { SOLVER_VERSION } from '../../solver/version.js';
-import { readReportFolder } from '../analysis/read-tables.js';
-import { assembleReportData } from './assembly.js';
+import { assembleReportFromFolder } from './from-folder.js';
 import { buildReportHtml } from './html.js';
 
 export interface ReportCommandOptions {
@@ -28,8 +27,7 @@ function positiveOption(value: string | undefined, flag: string): number | undef
 export async function writeReport(dir: string, options: ReportCommandOptions = {}): Promise<{ path: string; bytes: number; plots: number }> {
   const toleranceDb = positiveOption(options.toleranceDb, '--tolerance-db');
   const tolerancePhaseDeg = positiveOption(options.tolerancePhaseDeg, '--tolerance-phase-deg');
-  const tables = await readReportFolder(dir);
-  const data = assembleReportData(tables, { generatedBy: `loamwave ${SOLVER_VERSION}`, toleranceDb, tolerancePhaseDeg });
+  const data = await assembleReportFromFolder(dir, { generatedBy: `loamwave ${SOLVER_VERSION}`, toleranceDb, tolerancePhaseDeg });
   const html = await buildReportHtml(data);
   const path = join(dir, 'report.html');
   const tmp = join(dir, `.report.html.${process.pid}.tmp`);
