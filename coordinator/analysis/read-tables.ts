@@ -425,7 +425,7 @@ function sortedPoints(points: FieldRecord[]): FieldRecord[] {
  * Open the fields/ table of `dir` for reading job by job; DuckDB spills what does not fit in `memoryLimit` to
  * `scratchDir`. A file that cannot be read is one line naming the folder (exit code 2).
  */
-export async function openFieldReader(dir: string, scratchDir: string, memoryLimit = '384MB'): Promise<FieldReader> {
+export async function openFieldReader(dir: string, scratchDir: string, memoryLimit = '256MB'): Promise<FieldReader> {
   const fieldsDir = join(dir, REPORT_INPUTS.fields);
   const glob = sqlPath(join(fieldsDir, '**', '*.parquet'));
   const db = await DuckDBInstance.create(':memory:', { memory_limit: memoryLimit, temp_directory: join(scratchDir, 'read-spill') });

@@ -133,7 +133,7 @@ export function sqlName(name: string): string {
 const DUCK_TYPES: Record<ColumnType, string> = { DOUBLE: 'DOUBLE', INT64: 'BIGINT', UTF8: 'VARCHAR', BOOLEAN: 'BOOLEAN' };
 
 export interface DuckStoreOptions {
-  /** DuckDB's memory limit (it spills to `dir` beyond it). @defaultValue '640MB' (a Loamwave choice: with Node's own few hundred MB the output stage stays under 1 GiB; 384MB ran out unnesting a 250,000-row partition) */
+  /** DuckDB's memory limit (it spills to `dir` beyond it). @defaultValue '256MB' (a Loamwave choice: with Node's own few hundred MB and the field reader's, the output stage stays under 1 GiB; a segment of SEGMENT_ROWS rows unnests well within it) */
   readonly memoryLimit?: string;
   /** DuckDB's threads. @defaultValue DuckDB's own (one per core) */
   readonly threads?: number;
@@ -162,7 +162,7 @@ export class DuckTableStore {
   /** Open a store whose files live in `dir` (created by DuckDB; removed by close). */
   static async open(dir: string, options: DuckStoreOptions = {}): Promise<DuckTableStore> {
     const db = await DuckDBInstance.create(join(dir, 'work.duckdb'), {
-      memory_limit: options.memoryLimit ?? '640MB',
+      memory_limit: options.memoryLimit ?? '256MB',
       temp_directory: join(dir, 'spill'),
       // Every query that writes a file orders its rows; not keeping insertion order lets DuckDB spill more freely.
       preserve_insertion_order: 'false',
