@@ -3,7 +3,7 @@
 // supply become one-line UserErrors naming the file and what to do.
 import { existsSync, readdirSync, statSync } from 'node:fs';
 import { join } from 'node:path';
-import { DuckDBInstance, type DuckDBConnection } from '@duckdb/node-api';
+import { DuckDBInstance, type DuckDBConnection, type DuckDBResult } from '@duckdb/node-api';
 import { z } from 'zod';
 import { UserError } from '../../schemas/errors.js';
 import { ConvergenceRowSchema, type ConvergenceRow } from '../../schemas/analysis-rows.js';
@@ -395,6 +395,20 @@ export interface FieldReader {
   close(): void;
 }
 
+/** The columns of each chunk of a streamed result; a chunk that cannot be read throws `unreadable(error)`. */
+async function* chunksOf<T extends unknown[]>(result: DuckDBResult, unreadable: (e: unknown) => Error): AsyncGenerator<T, void, undefined> {
+  for (;;) {
+    let chunk;
+    try {
+      chunk = await result.fetchChunk();
+    } catch (e) {
+      throw unreadable(e);
+    }
+    if (!chunk || chunk.rowCount === 0) return;
+    yield chunk.getColumns() as T;
+  }
+}
+
 /** The fields/ files in partition number order (`part=2` before `part=10`), each folder's files by name. */
 export function fieldFilesInOrder(fieldsDir: string): string[] {
   const parts = readdirSync(fieldsDir, { withFileTypes: true })
@@ -481,15 +495,7 @@ export async function openFieldReader(dir: string, scratchDir: string, memoryLim
       const seen = new Set<string>();
       let current: string | null = null;
       let points: FieldRecord[] = [];
-      for (;;) {
-        let chunk;
-        try {
-          chunk = await result.fetchChunk();
-        } catch (e) {
-          throw unreadable(e);
-        }
-        if (!chunk || chunk.rowCount === 0) break;
-        const [ids, range, height, db_, phase] = chunk.getColumns() as [string[], number[], number[], number[], number[]];
+      for await (const [ids, range, height, db_, phase] of chunksOf<[string[], number[], number[], number[], number[]]>(result, unreadable)) {
         for (let i = 0; i < ids.length; i++) {
           const id = ids[i];
           if (id !== current) {
@@ -532,15 +538,7 @@ export async function openFieldReader(dir: string, scratchDir: string, memoryLim
       }
       let current = -1;
       let points: FieldRecord[] = [];
-      for (;;) {
-        let chunk;
-        try {
-          chunk = await result.fetchChunk();
-        } catch (e) {
-          throw unreadable(e);
-        }
-        if (!chunk || chunk.rowCount === 0) break;
-        const [ord, range, height, db_, phase] = chunk.getColumns() as [bigint[], number[], number[], number[], number[]];
+      for await (const [ord, range, height, db_, phase] of chunksOf<[bigint[], number[], number[], number[], number[]]>(result, unreadable)) {
         for (let i = 0; i < ord.length; i++) {
           const k = Number(ord[i]);
           if (k !== current) {
