@@ -1,7 +1,7 @@
 // Builds and runs the native C reference kernel (fdtd2d.c: an external yardstick, not part of the repository and
 // never copied in; see docs/references.md) so the benchmark can set our kernels' speed beside it in one run.
 // Build goes to a fresh temporary directory; a missing compiler or source is reported, not thrown.
-import { execFileSync, spawnSync } from 'node:child_process';
+import { execFileSync, spawn, spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
@@ -101,4 +101,28 @@ export function runNativeReference(ref: NativeReference, nx: number, nz: number,
   const t = /loamwave-time user=([\d.]+) sys=([\d.]+) wall=([\d.]+)/.exec(r.stderr);
   if (t && Number(t[3]) > 0) run.cpuShare = (Number(t[1]) + Number(t[2])) / Number(t[3]);
   return run;
+}
+
+/**
+ * Two copies of the reference at once, pinned to cores 0 and 1 (unpinned without taskset), against one copy alone
+ * on core 0: the machine's own scaling from one core to two on this kernel, whatever our code does. Returns the
+ * throughput of the pair (both copies' cell updates over the pair's wall time) over the single copy's.
+ */
+export async function nativePairScaling(ref: NativeReference, nx: number, nz: number, steps: number, variant = 'base'): Promise<{ alone: NativeRun; pair: NativeRun[]; pairWallS: number; scaling: number }> {
+  const alone = runNativeReference(ref, nx, nz, steps, variant);
+  const start = (core: number) =>
+    new Promise<NativeRun>((resolveRun, reject) => {
+      let argv = [ref.executable, String(nx), String(nz), String(steps), variant];
+      if (ref.pinned) argv = ['taskset', '-c', String(core), ...argv];
+      const child = spawn(argv[0], argv.slice(1), { stdio: ['ignore', 'pipe', 'pipe'] });
+      let out = '';
+      child.stdout.on('data', (d: Buffer) => (out += d.toString()));
+      child.on('error', reject);
+      child.on('close', (code) => (code === 0 ? resolveRun(parseNativeLine(out)) : reject(new Error(`native reference failed (${argv.join(' ')}): exit ${code}`))));
+    });
+  const t0 = performance.now();
+  const pair = await Promise.all([start(0), start(1)]);
+  const pairWallS = (performance.now() - t0) / 1000;
+  const cells = nx * nz * steps;
+  return { alone, pair, pairWallS, scaling: (2 * cells) / pairWallS / (cells / alone.seconds) };
 }

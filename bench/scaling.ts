@@ -3,7 +3,9 @@
 // and on two (target: two ≥ 1.9× faster). (b) Unequal jobs: the makespan on two threads, jobs started longest
 // first by the solver's own cost estimate as `run` orders them, against the lower bound max(longest job, total
 // work / threads) from the same jobs' durations measured one at a time (target: within 5 %).
-// The two settings alternate, each ratio is taken within one alternation, and the median and range are printed:
+// (b) also gives the makespan over the bound from the durations the jobs took on two threads, which leaves out the
+// slow-down of sharing the machine, and (c) how the machine itself scales: two copies of the C reference kernel at
+// once against one. The two settings alternate, each ratio is taken within one alternation, and the median and range are printed:
 // on a shared two-core machine other work takes a core now and then, and the range says how much.
 // A benchmark, not a test: it asserts nothing and prints a table (or `--json`).
 import { cpus, loadavg } from 'node:os';
@@ -12,6 +14,7 @@ import type { CaseInput } from '../schemas/case.js';
 import { parseCase } from '../schemas/case.js';
 import { estimateCost } from '../solver/index.js';
 import { SolverPool } from '../worker/thread-pool.js';
+import { buildNativeReference, defaultReferenceDir, nativePairScaling } from './native-reference.js';
 
 /** An invented small case (0.3–1.5 s of solving on this machine kind, by range): 30 kHz over wet farmland. */
 function smallCase(rangeM: number): CaseInput {
@@ -46,16 +49,17 @@ interface Timed {
  * Wall seconds from handing `inputs` to a fresh pool of `threads` threads, in the given order, to the last result.
  * The pool's threads are started, and one warm-up case solved on each, before the clock starts.
  */
-async function timeOnPool(inputs: readonly CaseInput[], threads: number, warmUp: CaseInput): Promise<Timed> {
+async function timeOnPool(inputs: readonly CaseInput[], threads: number, warmUp: CaseInput): Promise<Timed & { jobS: number[] }> {
   const pool = new SolverPool({ threads });
   try {
     await Promise.all(Array.from({ length: threads }, (_, t) => pool.run(warmUp, `warm-up-${t}`)));
     const cpu0 = process.cpuUsage();
     const t0 = performance.now();
-    await Promise.all(inputs.map((input, j) => pool.run(input, `scaling-${j}`)));
+    const results = await Promise.all(inputs.map((input, j) => pool.run(input, `scaling-${j}`)));
     const wallS = (performance.now() - t0) / 1000;
     const cpu = process.cpuUsage(cpu0);
-    return { wallS, cpuShare: (cpu.user + cpu.system) / 1e6 / wallS };
+    // each job's own wall time as the solver thread measured it, beside the other thread's job
+    return { wallS, cpuShare: (cpu.user + cpu.system) / 1e6 / wallS, jobS: results.map((r) => r.wall_time_s) };
   } finally {
     await pool.close();
   }
@@ -92,6 +96,9 @@ interface UnequalRound {
   makespanS: number;
   ratio: number;
   cpuShareTwo: number;
+  /** The bound from the durations the jobs took on two threads (each slowed by the other), and the makespan over it. */
+  sharedBoundS: number;
+  sharedRatio: number;
 }
 
 interface ScalingReport {
@@ -109,8 +116,16 @@ interface ScalingReport {
     medianRatio: number;
     ratioRange: [number, number];
     target: string;
+    medianSharedRatio: number;
   };
+  native: { skipped: string } | { grids: Array<{ nx: number; nz: number; medianScaling: number; range: [number, number] }> } | null;
 }
+
+/** Grids of the C reference pair (nx, nz, steps): one in the cache and one beyond it, about a second each. */
+const NATIVE_GRIDS: ReadonlyArray<readonly [number, number, number]> = [
+  [400, 200, 3000],
+  [2000, 400, 300],
+];
 
 function positiveInt(v: string): number {
   const n = Number(v);
@@ -123,8 +138,10 @@ async function main(): Promise<void> {
     .description('one solver thread against two: equal jobs (speed-up) and unequal jobs (makespan against its bound)')
     .option('--json', 'print the report as JSON on stdout')
     .option('--repeats <n>', 'alternations of the two settings (the median ratio is reported)', positiveInt, 5)
+    .option('--no-native', 'skip the C reference pair (the machine\'s own one-to-two-core scaling)')
+    .option('--native-dir <dir>', 'folder holding fdtd2d.c', defaultReferenceDir())
     .parse();
-  const opts = program.opts<{ json?: boolean; repeats: number }>();
+  const opts = program.opts<{ json?: boolean; repeats: number; native: boolean; nativeDir: string }>();
   const log = (s: string): void => void process.stderr.write(s + '\n');
   const loadAverageBefore = loadavg();
   const warmUp = smallCase(20_000);
@@ -146,8 +163,39 @@ async function main(): Promise<void> {
     const made = await timeOnPool(unequalInputs, 2, warmUp);
     const total = aloneS.reduce((s, x) => s + x, 0);
     const lowerBoundS = Math.max(Math.max(...aloneS), total / 2);
-    unequalRounds.push({ aloneS, lowerBoundS, makespanS: made.wallS, ratio: made.wallS / lowerBoundS, cpuShareTwo: made.cpuShare });
+    const sharedBoundS = Math.max(Math.max(...made.jobS), made.jobS.reduce((s, x) => s + x, 0) / 2);
+    unequalRounds.push({
+      aloneS,
+      lowerBoundS,
+      makespanS: made.wallS,
+      ratio: made.wallS / lowerBoundS,
+      cpuShareTwo: made.cpuShare,
+      sharedBoundS,
+      sharedRatio: made.wallS / sharedBoundS,
+    });
     log(`  unequal jobs, round ${r + 1}/${opts.repeats}: bound ${lowerBoundS.toFixed(2)} s, makespan ${made.wallS.toFixed(2)} s`);
+  }
+  // (c) the machine itself: the C reference kernel, one copy against two at once on the two cores
+  let native: ScalingReport['native'] = null;
+  if (!opts.native) native = { skipped: 'not asked for (--no-native)' };
+  else {
+    const ref = buildNativeReference(opts.nativeDir);
+    if (typeof ref === 'string') native = { skipped: ref };
+    else {
+      try {
+        const grids = NATIVE_GRIDS.map(([nx, nz, steps]) => ({ nx, nz, steps }));
+        const rows: Array<{ nx: number; nz: number; scalings: number[] }> = [];
+        for (const g of grids) {
+          const scalings: number[] = [];
+          for (let r = 0; r < Math.min(3, opts.repeats); r++) scalings.push((await nativePairScaling(ref, g.nx, g.nz, g.steps)).scaling);
+          rows.push({ nx: g.nx, nz: g.nz, scalings });
+          log(`  C reference pair on ${g.nx}x${g.nz}: ${scalings.map((x) => x.toFixed(2)).join(', ')}`);
+        }
+        native = { grids: rows.map((r) => ({ nx: r.nx, nz: r.nz, medianScaling: median(r.scalings), range: [Math.min(...r.scalings), Math.max(...r.scalings)] as [number, number] })) };
+      } finally {
+        ref.dispose();
+      }
+    }
   }
   const speedups = equalRounds.map((x) => x.speedup);
   const ratios = unequalRounds.map((x) => x.ratio);
@@ -172,7 +220,9 @@ async function main(): Promise<void> {
       medianRatio: median(ratios),
       ratioRange: [Math.min(...ratios), Math.max(...ratios)],
       target: 'makespan ≤ 1.05 × max(longest job, total work / 2)',
+      medianSharedRatio: median(unequalRounds.map((x) => x.sharedRatio)),
     },
+    native,
   };
   if (opts.json) {
     process.stdout.write(JSON.stringify(report, null, 2) + '\n');
@@ -194,6 +244,13 @@ async function main(): Promise<void> {
   out.push(`    bound ${median(unequalRounds.map((x) => x.lowerBoundS)).toFixed(2)} s, makespan ${median(unequalRounds.map((x) => x.makespanS)).toFixed(2)} s (medians)`);
   out.push(`    makespan / bound ${u.medianRatio.toFixed(3)} [${u.ratioRange[0].toFixed(3)}–${u.ratioRange[1].toFixed(3)}]; target ${u.target}`);
   out.push(`    CPU share on 2 threads ${median(unequalRounds.map((x) => x.cpuShareTwo)).toFixed(2)}`);
+  out.push(`    makespan / the bound from the durations the jobs took on two threads: ${u.medianSharedRatio.toFixed(3)} (the order's own loss, the slow-down of sharing left out)`);
+  const n = report.native;
+  if (n === null || 'skipped' in n) out.push(`(c) native reference pair skipped: ${n === null ? 'no reference' : n.skipped}`);
+  else {
+    out.push('(c) the machine itself: two copies of the C reference kernel (`base`) at once, pinned to cores 0 and 1, against one alone');
+    for (const g of n.grids) out.push(`    ${g.nx}×${g.nz}: ${g.medianScaling.toFixed(2)}× the throughput of one [${g.range[0].toFixed(2)}–${g.range[1].toFixed(2)}]`);
+  }
   process.stdout.write(out.join('\n') + '\n');
 }
 
