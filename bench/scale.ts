@@ -6,6 +6,8 @@
 // The numbers are invented (a 1/d fall with a frequency- and conductivity-dependent loss, and a resolution-dependent
 // error that shrinks with the grid): this measures time, memory and file sizes, not physics.
 import { spawnSync } from 'node:child_process';
+import { once } from 'node:events';
+import { isMainThread, Worker } from 'node:worker_threads';
 import { mkdtempSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
@@ -155,14 +157,25 @@ async function childOutputs(dir: string): Promise<void> {
   const stageRssMiB: Record<string, number> = {};
   let clock = t0;
   let peak = 0;
-  const sampler = setInterval(() => (peak = Math.max(peak, process.memoryUsage().rss)), 50);
+  let heapPeak = 0;
+  let externalPeak = 0;
+  const stageHeapMiB: Record<string, [heap: number, external: number]> = {};
+  const sampler = setInterval(() => {
+    const m = process.memoryUsage();
+    peak = Math.max(peak, m.rss);
+    heapPeak = Math.max(heapPeak, m.heapTotal);
+    externalPeak = Math.max(externalPeak, m.external + m.arrayBuffers);
+  }, 50);
   const summary: OutputSummary & { reportBytes?: number } = await writeOutputs(ledger, sweep, text, join(dir, 'out'), {
     onStage: (name) => {
       const now = performance.now();
       stageSeconds[name] = (now - clock) / 1000;
       stageRssMiB[name] = Math.max(peak, process.memoryUsage().rss) / 2 ** 20;
+      stageHeapMiB[name] = [heapPeak / 2 ** 20, externalPeak / 2 ** 20];
       clock = now;
       peak = 0;
+      heapPeak = 0;
+      externalPeak = 0;
     },
   });
   // the report, as `run` writes it after the tables (from the tables just written)
@@ -175,7 +188,7 @@ async function childOutputs(dir: string): Promise<void> {
   const seconds = (now - t0) / 1000;
   summary.reportBytes = report.bytes;
   ledger.close();
-  process.stdout.write(JSON.stringify({ seconds, summary, stageSeconds, stageRssMiB }) + '\n');
+  process.stdout.write(JSON.stringify({ seconds, summary, stageSeconds, stageRssMiB, stageHeapMiB }) + '\n');
 }
 
 interface ChildRun {
@@ -271,11 +284,21 @@ async function parent(sizes: string[]): Promise<void> {
 }
 
 const [flag, arg, size] = process.argv.slice(2);
-if (flag === '--sweep') {
+if (flag === '--outputs' && isMainThread) {
+  // The output stage as `run` and `collect` run it: in a thread whose heap is capped (commands/output-thread.ts);
+  // this process's peak RSS, reported after, counts that thread too.
+  const { outputHeapMb } = await import('../coordinator/commands/finish-outputs.js');
+  const worker = new Worker(new URL(import.meta.url), { argv: process.argv.slice(2), resourceLimits: { maxOldGenerationSizeMb: outputHeapMb() } });
+  const [code] = (await once(worker, 'exit')) as [number];
+  if (code !== 0) process.exit(code);
+  process.stdout.write(JSON.stringify({ maxRSSkB: process.resourceUsage().maxRSS }) + '\n');
+} else if (flag === '--outputs') {
+  await childOutputs(arg);
+} else if (flag === '--sweep') {
   // for profiling one stage by hand: `--sweep DIR ROWS`, then `--fill DIR`, then `node --cpu-prof … --outputs DIR`
   writeFileSync(join(arg, 'sweep.yaml'), sweepText(Number(size)));
-} else if (flag === '--fill' || flag === '--outputs' || flag === '--status-ledger') {
-  await (flag === '--fill' ? childFill(arg, size !== 'no-live') : flag === '--outputs' ? childOutputs(arg) : childStatusLedger(arg));
+} else if (flag === '--fill' || flag === '--status-ledger') {
+  await (flag === '--fill' ? childFill(arg, size !== 'no-live') : childStatusLedger(arg));
   process.stdout.write(JSON.stringify({ maxRSSkB: process.resourceUsage().maxRSS }) + '\n');
 } else {
   await parent(process.argv.slice(2).length > 0 ? process.argv.slice(2) : ['100k', '1M']);

@@ -19,6 +19,8 @@ const ROW_NUMBER = 'loamwave_row_number';
 const FLUSH_ROWS = 16_384;
 /** Room for each convergence group's rows in the order key (2^26 rows a group; 2^27 groups stay below 2^53). */
 const GROUP_KEY_STRIDE = 2 ** 26;
+/** DuckDB's memory limit for the field reader of the analysis (a Loamwave choice, measured at 10 M rows). */
+const ANALYSIS_READER_MEMORY = '128MB';
 
 /**
  * A table of a flat row schema, filled a batch of rows at a time into the store, then written as one Parquet
@@ -111,7 +113,10 @@ export async function writeAnalysisTables(
   options: { sensitivity?: boolean } = {},
 ): Promise<{ convergence: number; sensitivity: number | null }> {
   const tables = await readReportFolder(dir, { fields: false });
-  const reader = await openFieldReader(dir, scratchDir);
+  // a small limit: the rows are streamed (or, for spread-out groups, sorted with spilling), and the store's
+  // DuckDB, the Float64Array per output of the sensitivity pass and Node's own heap share the 1 GiB the output
+  // stage is held to (the store needs its 256 MB: sorting 5 M convergence rows in 128 MB ran out)
+  const reader = await openFieldReader(dir, scratchDir, ANALYSIS_READER_MEMORY);
   const open: RowTable[] = [];
   try {
     const convergence = await RowTable.open(store, 'convergence', ConvergenceRowSchema);

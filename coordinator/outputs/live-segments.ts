@@ -83,7 +83,7 @@ export class LiveFieldSegments {
           }
         }
         mkdirSync(this.workDir(), { recursive: true });
-        this.store = await DuckTableStore.open(this.workDir(), { memoryLimit: '256MB', threads: 1 });
+        this.store = await DuckTableStore.open(this.workDir(), { memoryLimit: '128MB', threads: 1 });
         this.segments = segments;
       }
       const fresh = this.run.ledger.resultTextsAfter(this.afterRow);
