@@ -4,7 +4,7 @@
 // (report.html is the command layer's, written after this from the same tables). Everything is written
 // under a staging folder and renamed into place at the end, so a crash never leaves half a table; rows stream
 // from the ledger through a disk-backed DuckDB table, so memory is bounded, not proportional to the sweep.
-import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Sweep } from '../../schemas/sweep.js';
 import type { JobResult } from '../../schemas/result.js';
@@ -264,12 +264,14 @@ function publish(staging: string, outDir: string, files: readonly string[], fold
 }
 
 /**
- * Staging folders left by a crashed writer hold nothing anyone reads: remove them, and the scratch folders of
- * live segment writers (`.loamwave-work-<pid>`) whose process is gone.
+ * Staging folders left by a crashed writer hold nothing anyone reads: remove them, the scratch folders of live
+ * segment writers (`.loamwave-work-<pid>`) whose process is gone, and old report scratch folders.
  */
 function removeStaleStaging(outDir: string): void {
   for (const name of readdirSync(outDir)) {
     if (name.startsWith(STAGING_PREFIX)) rmSync(join(outDir, name), { recursive: true, force: true });
+    // the report's scratch folder (DuckDB's spill files), left by a report that crashed an hour or more ago
+    if (name.startsWith('.loamwave-report-') && statSync(join(outDir, name)).mtimeMs < Date.now() - 3600_000) rmSync(join(outDir, name), { recursive: true, force: true });
     const work = /^\.loamwave-work-(\d+)$/.exec(name);
     if (work && Number(work[1]) !== process.pid && !processAlive(Number(work[1]))) rmSync(join(outDir, name), { recursive: true, force: true });
   }
