@@ -27,7 +27,8 @@ export interface DigestLimits {
   readonly linesPerOutput: number;
 }
 
-function countBy<T>(items: readonly T[], key: (item: T) => string): Record<string, number> {
+/** How many items have each key, keys in the order they first appear. */
+export function countBy<T>(items: readonly T[], key: (item: T) => string): Record<string, number> {
   const out: Record<string, number> = {};
   for (const i of items) out[key(i)] = (out[key(i)] ?? 0) + 1;
   return out;

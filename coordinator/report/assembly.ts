@@ -16,7 +16,7 @@ import {
   type Notes,
 } from '../analysis/compute-tables.js';
 import { fieldRecordsOf, isFieldColumns, jobColumnsOf, type FieldRows, type FolderTables } from '../analysis/read-tables.js';
-import { convergenceDigestOf, type ConvergenceDigest } from '../analysis/convergence-digest.js';
+import { convergenceDigestOf, countBy, type ConvergenceDigest } from '../analysis/convergence-digest.js';
 import type { Sweep } from '../../schemas/sweep.js';
 import {
   MAX_CONVERGENCE_LINES,
@@ -145,12 +145,6 @@ function boundedCurvature(rows: readonly CurvatureRow[]): { rows: CurvatureRow[]
     evenIndices(lines[i].length, MAX_RANGES_PER_LINE).map((k) => lines[i][k]),
   );
   return { rows: kept, total: kept.length < rows.length ? { rows: rows.length, lines: lines.length } : null };
-}
-
-function countBy<T>(items: readonly T[], key: (item: T) => string): Record<string, number> {
-  const out: Record<string, number> = {};
-  for (const i of items) out[key(i)] = (out[key(i)] ?? 0) + 1;
-  return out;
 }
 
 /**
