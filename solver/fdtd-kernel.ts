@@ -866,6 +866,65 @@ function topLayerColumn(f: YeeFields, p: CpmlState, i: number): void {
 }
 
 /**
+ * topLayerColumn for columns i and i+1 in one pass a row (as fusedPairRows does below the layer): column i+1's Ez
+ * takes column i's new Hy, and both columns share the layer's coefficients of the row.
+ */
+function topLayerPair(f: YeeFields, p: CpmlState, i: number): void {
+  const { nz, S, ex, ez, hy, chx, chz, caEx, cbEx, caEz, cbEz } = f;
+  const { kz0, pz, bHz, aHz, bEx, aEx, psiHz, psiEx } = p;
+  const a = i * S;
+  const oxa = (f.colEx[i] - a) | 0;
+  const oxb = (f.colEx[i + 1] - a - S) | 0;
+  const oza = (f.colEz[i] - a) | 0;
+  const ozb = (f.colEz[i + 1] - a - S) | 0;
+  const pa = f.rp[i], ma = f.rm[i], pb = f.rp[i + 1], mb = f.rm[i + 1];
+  const ta = (i * pz - kz0) | 0; // ψ index = row + ta (column i), row + ta + pz (column i+1)
+  const tb = (ta + pz) | 0;
+  let xa = ex[a + kz0], xb = ex[a + S + kz0];
+  let ha = hy[a + kz0 - 1], hb = hy[a + S + kz0 - 1];
+  for (let k = kz0; k < nz; k++) {
+    const ik = (a + k) | 0;
+    const jk = (ik + S) | 0;
+    const j = (k - kz0) | 0;
+    const c = chz[k], bh = bHz[j], ah = aHz[j], be = bEx[j], ae = aEx[j];
+    const xa1 = ex[(ik + 1) | 0], xb1 = ex[(jk + 1) | 0];
+    const za = ez[ik], zb = ez[jk], zc = ez[(jk + S) | 0];
+    const dxa = xa1 - xa, dxb = xb1 - xb;
+    // Hy += chx·ΔEz − chz·ΔEx, then ψ ← bψ + a·ΔEx, Hy −= chz·ψ
+    let h0 = hy[ik] + (chx * (zb - za) - c * dxa);
+    let h1 = hy[jk] + (chx * (zc - zb) - c * dxb);
+    const qa = (k + ta) | 0, qb = (k + tb) | 0;
+    const psa = bh * psiHz[qa] + ah * dxa;
+    const psb = bh * psiHz[qb] + ah * dxb;
+    psiHz[qa] = psa;
+    psiHz[qb] = psb;
+    h0 -= c * psa;
+    h1 -= c * psb;
+    hy[ik] = h0;
+    hy[jk] = h1;
+    // Ex = ca·Ex + cb·ΔHy, then ψ ← bψ + a·ΔHy, Ex += cb·ψ; Ez = ca·Ez + cb·(r₊Hy − r₋Hy(i−1))
+    const dha = ha - h0, dhb = hb - h1;
+    const ua = (ik + oxa) | 0, ub = (jk + oxb) | 0;
+    const cba = cbEx[ua], cbb = cbEx[ub];
+    const ea = caEx[ua] * xa + cba * dha;
+    const eb = caEx[ub] * xb + cbb * dhb;
+    const pea = be * psiEx[qa] + ae * dha;
+    const peb = be * psiEx[qb] + ae * dhb;
+    psiEx[qa] = pea;
+    psiEx[qb] = peb;
+    ex[ik] = ea + cba * pea;
+    ex[jk] = eb + cbb * peb;
+    const sa = (ik + oza) | 0, sb = (jk + ozb) | 0;
+    ez[ik] = caEz[sa] * za + cbEz[sa] * (pa * h0 - ma * hy[(ik - S) | 0]);
+    ez[jk] = caEz[sb] * zb + cbEz[sb] * (pb * h1 - mb * h0);
+    xa = xa1;
+    xb = xb1;
+    ha = h0;
+    hb = h1;
+  }
+}
+
+/**
  * Column i = ix0 + j of the far-side layer (ix0 ≥ 1), whole: H of every row with the layer's ψ term (and the top
  * layer's above kz0), the ground row, then Ex and Ez of every row with their ψ terms; each cell as the five updates
  * write it, in the same order of operations (Roden & Gedney 2000).
@@ -926,6 +985,105 @@ function farLayerColumn(f: YeeFields, p: CpmlState, z: ImpedanceRow | undefined,
   }
 }
 
+/**
+ * farLayerColumn for columns i = ix0 + j and i+1 together, row loops split at the top layer so no loop branches:
+ * H of both columns (below the top layer, then in it), their ground rows, then Ex (below, in) and Ez of both.
+ * Column i+1's Ez reads column i's new Hy, finished above; each cell as the five updates write it.
+ */
+function farLayerPair(f: YeeFields, p: CpmlState, z: ImpedanceRow | undefined, j: number): void {
+  const { nz, S, ex, ez, hy, chx, chz, caEx, cbEx, caEz, cbEz } = f;
+  const { kz0, pz, psiHx, psiEz, psiHz, psiEx, bHz, aHz, bEx, aEx, bHx, aHx, bEz, aEz } = p;
+  const i = p.ix0 + j;
+  const a = i * S;
+  const pa = (j * S - a) | 0; // far-layer ψ index = field index + pa (both columns: the ψ rows have stride S too)
+  const ta = (i * pz - kz0) | 0; // top-layer ψ index = row + ta (column i), row + ta + pz (column i+1)
+  const tb = (ta + pz) | 0;
+  const bHa = bHx[j], aHa = aHx[j], bHb = bHx[j + 1], aHb = aHx[j + 1];
+  const kTop = pz > 0 ? kz0 : nz;
+  // H: Hy += chx·ΔEz − chz·ΔEx, then ψx ← bψx + a·ΔEz, Hy += chx·ψx, then (top layer) ψz ← bψz + a·ΔEx, Hy −= chz·ψz
+  for (let k = 0; k < nz; k++) {
+    const ik = (a + k) | 0;
+    const jk = (ik + S) | 0;
+    const zb = ez[jk];
+    const dza = zb - ez[ik];
+    const dzb = ez[(jk + S) | 0] - zb;
+    const dxa = ex[(ik + 1) | 0] - ex[ik];
+    const dxb = ex[(jk + 1) | 0] - ex[jk];
+    const c = chz[k];
+    let h0 = hy[ik] + (chx * dza - c * dxa);
+    let h1 = hy[jk] + (chx * dzb - c * dxb);
+    const qa = (ik + pa) | 0, qb = (jk + pa) | 0;
+    const psa = bHa * psiHx[qa] + aHa * dza;
+    const psb = bHb * psiHx[qb] + aHb * dzb;
+    psiHx[qa] = psa;
+    psiHx[qb] = psb;
+    h0 += chx * psa;
+    h1 += chx * psb;
+    if (k >= kTop) {
+      const r = (k - kz0) | 0;
+      const bz = bHz[r], az = aHz[r];
+      const pza = bz * psiHz[(k + ta) | 0] + az * dxa;
+      const pzb = bz * psiHz[(k + tb) | 0] + az * dxb;
+      psiHz[(k + ta) | 0] = pza;
+      psiHz[(k + tb) | 0] = pzb;
+      h0 -= c * pza;
+      h1 -= c * pzb;
+    }
+    hy[ik] = h0;
+    hy[jk] = h1;
+  }
+  if (z) {
+    surfaceImpedanceColumn(f, z, i);
+    surfaceImpedanceColumn(f, z, i + 1);
+  }
+  const oxa = (f.colEx[i] - a) | 0;
+  const oxb = (f.colEx[i + 1] - a - S) | 0;
+  // Ex, rows 1…nz−1: Ex = ca·Ex + cb·ΔHy, then (top layer) ψz ← bψz + a·ΔHy, Ex += cb·ψz
+  for (let k = 1; k < nz; k++) {
+    const ik = (a + k) | 0;
+    const jk = (ik + S) | 0;
+    const dha = hy[(ik - 1) | 0] - hy[ik];
+    const dhb = hy[(jk - 1) | 0] - hy[jk];
+    const ua = (ik + oxa) | 0, ub = (jk + oxb) | 0;
+    const cba = cbEx[ua], cbb = cbEx[ub];
+    let ea = caEx[ua] * ex[ik] + cba * dha;
+    let eb = caEx[ub] * ex[jk] + cbb * dhb;
+    if (k >= kTop) {
+      const r = (k - kz0) | 0;
+      const be = bEx[r], ae = aEx[r];
+      const pea = be * psiEx[(k + ta) | 0] + ae * dha;
+      const peb = be * psiEx[(k + tb) | 0] + ae * dhb;
+      psiEx[(k + ta) | 0] = pea;
+      psiEx[(k + tb) | 0] = peb;
+      ea += cba * pea;
+      eb += cbb * peb;
+    }
+    ex[ik] = ea;
+    ex[jk] = eb;
+  }
+  // Ez, rows 0…nz−1: Ez = ca·Ez + cb·(r₊Hy − r₋Hy(i−1)), then ψx ← bψx + a·(Hy − Hy(i−1)), Ez += cb·ψx
+  const oza = (f.colEz[i] - a) | 0;
+  const ozb = (f.colEz[i + 1] - a - S) | 0;
+  const rpa = f.rp[i], rma = f.rm[i], rpb = f.rp[i + 1], rmb = f.rm[i + 1];
+  const bEa = bEz[j], aEa = aEz[j], bEb = bEz[j + 1], aEb = aEz[j + 1];
+  for (let k = 0; k < nz; k++) {
+    const ik = (a + k) | 0;
+    const jk = (ik + S) | 0;
+    const hm = hy[(ik - S) | 0], h0 = hy[ik], h1 = hy[jk];
+    const sa = (ik + oza) | 0, sb = (jk + ozb) | 0;
+    const cba = cbEz[sa], cbb = cbEz[sb];
+    const ea = caEz[sa] * ez[ik] + cba * (rpa * h0 - rma * hm);
+    const eb = caEz[sb] * ez[jk] + cbb * (rpb * h1 - rmb * h0);
+    const qa = (ik + pa) | 0, qb = (jk + pa) | 0;
+    const psa = bEa * psiEz[qa] + aEa * (h0 - hm);
+    const psb = bEb * psiEz[qb] + aEb * (h1 - h0);
+    psiEz[qa] = psa;
+    psiEz[qb] = psb;
+    ez[ik] = ea + cba * psa;
+    ez[jk] = eb + cbb * psb;
+  }
+}
+
 /** Rows 0 and 1 of column i ≥ 1: H, the ground row's Ex (which needs H of both), then E. */
 function groundRows(f: YeeFields, z: ImpedanceRow | undefined, i: number, head: number): void {
   hRows(f, i, 0, head);
@@ -981,10 +1139,7 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
     } else {
       fusedPairRows(f, i, 2, kTop);
     }
-    if (pz > 0) {
-      topLayerColumn(f, p!, i);
-      topLayerColumn(f, p!, i + 1);
-    }
+    if (pz > 0) topLayerPair(f, p!, i);
   }
   if (i < ix0) {
     // the column left over when the count is odd
@@ -994,6 +1149,8 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
     fusedRows(f, i, hi[i], kTop);
     if (pz > 0) topLayerColumn(f, p!, i);
   }
-  // the far-side layer's columns, each whole
-  for (let j = 0; ix0 + j < nx; j++) farLayerColumn(f, p!, z, j);
+  // the far-side layer's columns, two at a time, each pair whole; the last alone when the count is odd
+  let j = 0;
+  for (; ix0 + j + 1 < nx; j += 2) farLayerPair(f, p!, z, j);
+  if (ix0 + j < nx) farLayerColumn(f, p!, z, j);
 }
