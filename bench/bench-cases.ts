@@ -19,6 +19,32 @@ export function demoCase(): Case {
   return parseCase(DEMO_INPUT, 'bench demo case');
 }
 
+/**
+ * Long path: the invented Yelquandor LF time-signal station (80 kHz, 10 kW) on the sphere of the mean earth radius,
+ * 300 km over upland heath and the (invented) Zemquorel fens, 15 cells/λ, an open top at 40 km over 60 absorbing
+ * cells, as the earth-model example lays it out (its first 300 km). Timed for a fixed number of steps.
+ */
+const LONG_PATH_INPUT: CaseInput = {
+  geometry: 'spherical',
+  frequency_hz: 80_000,
+  source: { power_w: 10_000 },
+  ground: {
+    model: 'impedance',
+    segments: [
+      { start_m: 0, conductivity_s_per_m: 0.003, relative_permittivity: 15 },
+      { start_m: 60_000, conductivity_s_per_m: 0.01, relative_permittivity: 30 },
+    ],
+  },
+  upper_boundary: { kind: 'open' },
+  domain: { range_m: 300_000, height_m: 40_000 },
+  grid: { cells_per_wavelength: 15, absorbing_cells: 60, dispersion_correction: 'along_ground' },
+  receivers: { ranges_m: [100_000, 200_000, 290_000] },
+};
+
+export function longPathCase(): Case {
+  return parseCase(LONG_PATH_INPUT, 'bench long-path case');
+}
+
 const SMALL_INPUTS: Record<string, CaseInput> = {
   'axisymmetric impedance, extrapolated sampling, open top': {
     frequency_hz: 30_000,
@@ -54,6 +80,20 @@ const SMALL_INPUTS: Record<string, CaseInput> = {
     domain: { range_m: 60_000, height_m: 90_000 },
     grid: { cells_per_wavelength: 8, absorbing_cells: 10 },
     receivers: { ranges_m: [40_000] },
+  },
+  'spherical impedance ground, mixed path, open top': {
+    geometry: 'spherical',
+    frequency_hz: 60_000,
+    ground: {
+      model: 'impedance',
+      segments: [
+        { start_m: 0, conductivity_s_per_m: 0.005, relative_permittivity: 15 },
+        { start_m: 30_000, conductivity_s_per_m: 4, relative_permittivity: 80 },
+      ],
+    },
+    domain: { range_m: 80_000, height_m: 20_000 },
+    grid: { cells_per_wavelength: 8, absorbing_cells: 10 },
+    receivers: { ranges_m: [20_000, 70_000] },
   },
   'planar perfect ground, raised source': {
     geometry: 'planar',

@@ -427,6 +427,11 @@ interface FreeSpacePlan {
   readonly chz0: number;
   /** The same three constants in a typed array: read inside a loop they are raw doubles, not tagged numbers. */
   readonly free: Float64Array;
+  /**
+   * Whether Ez's cb varies from row to row inside the free-space runs (on the sphere it carries the metric factor
+   * (a/ρ)², one value a row): the runs then read it from the coefficient arrays, the other constants stay constants.
+   */
+  readonly graded: boolean;
   readonly lo: Int32Array;
   readonly hi: Int32Array;
 }
@@ -451,6 +456,7 @@ function freeSpacePlan(f: YeeFields, kTop: number): FreeSpacePlan {
   const { nx, caEx, cbEx, caEz, cbEz, chz, colEx, colEz } = f;
   const lo = new Int32Array(nx);
   const hi = new Int32Array(nx);
+  let graded = false;
   // the candidate constants: the cell just below the top layer in the middle column, free space on any open grid
   const ic = nx >> 1;
   const kc = Math.max(0, kTop - 1);
@@ -463,12 +469,12 @@ function freeSpacePlan(f: YeeFields, kTop: number): FreeSpacePlan {
     let best = 0;
     let start = -1;
     for (let k = 2; k <= kTop; k++) {
+      // cbEz may vary from row to row (the sphere's metric factor): see `graded` below
       const free =
         k < kTop &&
         Object.is(caEx[colEx[i] + k], 1) &&
         Object.is(cbEx[colEx[i] + k], cbEx0) &&
         Object.is(caEz[colEz[i] + k], 1) &&
-        Object.is(cbEz[colEz[i] + k], cbEz0) &&
         Object.is(chz[k], chz0);
       if (free && start < 0) start = k;
       if (!free && start >= 0) {
@@ -481,9 +487,10 @@ function freeSpacePlan(f: YeeFields, kTop: number): FreeSpacePlan {
     }
     lo[i] = runLo;
     hi[i] = runLo + best;
+    for (let k = runLo; k < runLo + best; k++) if (!Object.is(cbEz[colEz[i] + k], cbEz0)) graded = true;
   }
   const free = Float64Array.of(cbEx0, cbEz0, chz0);
-  const plan: FreeSpacePlan = { caEx, cbEx, caEz, cbEz, chz, colEx, colEz, kTop, cbEx0, cbEz0, chz0, free, lo, hi };
+  const plan: FreeSpacePlan = { caEx, cbEx, caEz, cbEz, chz, colEx, colEz, kTop, cbEx0, cbEz0, chz0, free, graded, lo, hi };
   plans.set(f, plan);
   return plan;
 }
@@ -824,6 +831,66 @@ function fusedPairFreeRows(f: YeeFields, i: number, k0: number, k1: number, free
 }
 
 /**
+ * fusedPairFreeRows where Ez's cb varies by row (FreeSpacePlan.graded): ca = 1 and the constants free[0] (cb of Ex)
+ * and free[2] (chz), Ez's cb from the coefficient arrays (1·x = x exactly: the same numbers as fusedPairRows).
+ */
+function fusedPairGradedRows(f: YeeFields, i: number, k0: number, k1: number, free: Float64Array): void {
+  const { S, ex, ez, hy, chx } = f;
+  const cx = free[0], ch = free[2];
+  const { cbEz } = f;
+  const a = i * S;
+  const oza = (f.colEz[i] - a) | 0; // coefficient index = field index + offset
+  const ozb = (f.colEz[i + 1] - a - S) | 0;
+  const pa = f.rp[i], ma = f.rm[i], pb = f.rp[i + 1], mb = f.rm[i + 1];
+  let xa = ex[a + k0], xb = ex[a + S + k0];
+  let ha = hy[a + k0 - 1], hb = hy[a + S + k0 - 1];
+  let ik = (a + k0) | 0;
+  const end = (a + k1) | 0;
+  for (; ik + 1 < end; ik = (ik + 2) | 0) {
+    const jk = (ik + S) | 0;
+    const xa1 = ex[(ik + 1) | 0], xa2 = ex[(ik + 2) | 0], xb1 = ex[(jk + 1) | 0], xb2 = ex[(jk + 2) | 0];
+    const za0 = ez[ik], za1 = ez[(ik + 1) | 0], zb0 = ez[jk], zb1 = ez[(jk + 1) | 0];
+    const zc0 = ez[(jk + S) | 0], zc1 = ez[(jk + S + 1) | 0];
+    // Hy^{n+½} = Hy^{n−½} + chx·(Ez(i+1) − Ez(i)) − chz·(Ex(k+1) − Ex(k))
+    const ha0 = hy[ik] + (chx * (zb0 - za0) - ch * (xa1 - xa));
+    const ha1 = hy[(ik + 1) | 0] + (chx * (zb1 - za1) - ch * (xa2 - xa1));
+    const hb0 = hy[jk] + (chx * (zc0 - zb0) - ch * (xb1 - xb));
+    const hb1 = hy[(jk + 1) | 0] + (chx * (zc1 - zb1) - ch * (xb2 - xb1));
+    hy[ik] = ha0;
+    hy[(ik + 1) | 0] = ha1;
+    hy[jk] = hb0;
+    hy[(jk + 1) | 0] = hb1;
+    // Ex^{n+1} = Ex^n + cb·(Hy(k−1) − Hy(k)); Ez^{n+1} = Ez^n + cb·(r₊·Hy(i) − r₋·Hy(i−1))
+    ex[ik] = xa + cx * (ha - ha0);
+    ex[(ik + 1) | 0] = xa1 + cx * (ha0 - ha1);
+    ex[jk] = xb + cx * (hb - hb0);
+    ex[(jk + 1) | 0] = xb1 + cx * (hb0 - hb1);
+    const sa = (ik + oza) | 0, sb = (jk + ozb) | 0;
+    ez[ik] = za0 + cbEz[sa] * (pa * ha0 - ma * hy[(ik - S) | 0]);
+    ez[(ik + 1) | 0] = za1 + cbEz[(sa + 1) | 0] * (pa * ha1 - ma * hy[(ik - S + 1) | 0]);
+    ez[jk] = zb0 + cbEz[sb] * (pb * hb0 - mb * ha0);
+    ez[(jk + 1) | 0] = zb1 + cbEz[(sb + 1) | 0] * (pb * hb1 - mb * ha1);
+    xa = xa2;
+    xb = xb2;
+    ha = ha1;
+    hb = hb1;
+  }
+  if (ik < end) {
+    const jk = (ik + S) | 0;
+    const xa1 = ex[(ik + 1) | 0], xb1 = ex[(jk + 1) | 0];
+    const za0 = ez[ik], zb0 = ez[jk], zc0 = ez[(jk + S) | 0];
+    const ha0 = hy[ik] + (chx * (zb0 - za0) - ch * (xa1 - xa));
+    const hb0 = hy[jk] + (chx * (zc0 - zb0) - ch * (xb1 - xb));
+    hy[ik] = ha0;
+    hy[jk] = hb0;
+    ex[ik] = xa + cx * (ha - ha0);
+    ex[jk] = xb + cx * (hb - hb0);
+    ez[ik] = za0 + cbEz[(ik + oza) | 0] * (pa * ha0 - ma * hy[(ik - S) | 0]);
+    ez[jk] = zb0 + cbEz[(jk + ozb) | 0] * (pb * hb0 - mb * ha0);
+  }
+}
+
+/**
  * Rows [kz0, nz) of column i ≥ 1 left of the far-side layer, inside the top layer, in one pass a row: H and its
  * CPML term, then Ex with its CPML term and Ez, each as updateH, updateHCpml, updateE and updateECpml write them, in
  * the same order of operations (Roden & Gedney 2000 for ψ ← bψ + a·Δ).
@@ -1113,7 +1180,7 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
     if (p) updateECpml(f, p);
     return;
   }
-  const { lo, hi, cbEx0, cbEz0, chz0, free } = freeSpacePlan(f, kTop);
+  const { lo, hi, cbEx0, cbEz0, chz0, free, graded } = freeSpacePlan(f, kTop);
   const head = Math.min(2, nz);
   // the axis column, rows below the top layer, update after update; then its rows in the top layer
   hRows(f, 0, 0, kTop);
@@ -1134,7 +1201,8 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
     const fHi = Math.min(hi[i], hi[i + 1]);
     if (fHi > fLo) {
       fusedPairRows(f, i, 2, fLo);
-      fusedPairFreeRows(f, i, fLo, fHi, free);
+      if (graded) fusedPairGradedRows(f, i, fLo, fHi, free);
+      else fusedPairFreeRows(f, i, fLo, fHi, free);
       fusedPairRows(f, i, fHi, kTop);
     } else {
       fusedPairRows(f, i, 2, kTop);
@@ -1144,9 +1212,13 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
   if (i < ix0) {
     // the column left over when the count is odd
     groundRows(f, z, i, head);
-    fusedRows(f, i, 2, lo[i]);
-    fusedFreeRows(f, i, lo[i], hi[i], cbEx0, cbEz0, chz0);
-    fusedRows(f, i, hi[i], kTop);
+    if (graded) {
+      fusedRows(f, i, 2, kTop);
+    } else {
+      fusedRows(f, i, 2, lo[i]);
+      fusedFreeRows(f, i, lo[i], hi[i], cbEx0, cbEz0, chz0);
+      fusedRows(f, i, hi[i], kTop);
+    }
     if (pz > 0) topLayerColumn(f, p!, i);
   }
   // the far-side layer's columns, two at a time, each pair whole; the last alone when the count is odd

@@ -5,15 +5,7 @@ import type { ReceiverResult, SolveResult } from '../schemas/result.js';
 import { C0, MU0 } from './constants.js';
 import { buildCpmlState } from './cpml.js';
 import { SolveCancelledError, SolverDivergedError } from './errors.js';
-import {
-  applySurfaceImpedance,
-  updateE,
-  updateECpml,
-  updateH,
-  updateHCpml,
-  type ImpedanceRow,
-  type YeeFields,
-} from './fdtd-kernel.js';
+import { leapfrogStep, type CpmlState, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
 import { buildMaterials, magneticCoefficients, metricUnscale, planGrid, radialFactors, sourceCellAreaM2, type GridPlan } from './grid.js';
 import { buildReceiverTaps, ReceiverBank } from './receivers.js';
 import { sourceCurrent, targetMoment } from './source.js';
@@ -72,9 +64,18 @@ export function estimateCost(c: Case): { cells_total: number; steps: number; mem
   return { cells_total: cells, steps, memory_bytes: g.memoryBytes, cell_updates: cells * steps };
 }
 
-/** Solve one validated case. Throws UserError for cases outside the models' validity. */
-export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
-  const { grid: g, warnings } = checkSolvable(c);
+/** The fields, absorbing layers and ground row of a case's Yee grid, at rest, as solve() steps them. */
+export interface YeeGrid {
+  f: YeeFields;
+  pml: CpmlState;
+  zrow: ImpedanceRow | undefined;
+}
+
+/**
+ * Build a case's Yee grid (solve() does this first, then steps it with leapfrogStep); pure, so a benchmark can time
+ * the kernel alone on the very grid solve() runs.
+ */
+export function buildYeeGrid(c: Case, g: GridPlan = planGrid(c)): YeeGrid {
   const { nx, nz } = g;
   const S = nz + 1;
   const size = (nx + 1) * S;
@@ -127,6 +128,15 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
     zrow = buildImpedanceRow(rOhm, lH, g.dtS, c.ground.impedance_sampling, rowScale);
   }
 
+  return { f, pml, zrow };
+}
+
+/** Solve one validated case. Throws UserError for cases outside the models' validity. */
+export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
+  const { grid: g, warnings } = checkSolvable(c);
+  const { nx, nz } = g;
+  const { f, pml, zrow } = buildYeeGrid(c, g);
+
   // Source: a vertical current element filling the Ez cell on the axis (or symmetry plane) at the source height.
   let ks = g.groundRow;
   while (ks + 1 < nz && g.zNodeM[ks + 1] <= c.source.height_m + 1e-9) ks++;
@@ -134,7 +144,7 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   const areaM2 = sourceCellAreaM2(c, g);
   // ε∂Ez/∂t = curl − J: the update adds −cb′·J, cb′ = cbEz·Δx (on the sphere cbEz also carries (a/ρ)², which turns
   // the cap at the source's radius ρ into the cap at the surface radius that areaM2 measures)
-  const sourceCoef = -(mat.cbEz[mat.colEz[0] + ks] * g.dxM) / areaM2;
+  const sourceCoef = -(f.cbEz[f.colEz[0] + ks] * g.dxM) / areaM2;
   const omega = 2 * Math.PI * c.frequency_hz;
   const sch = schedule(c, g);
   const rampS = sch.rampSteps * g.dtS;
@@ -160,12 +170,8 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   let settled = false;
   for (;;) {
     const windowEnd = n >= sch.settleSteps && (n - sch.settleSteps) % sch.windowSteps === sch.windowSteps - 1;
-    // one leapfrog step: E^n → H^{n+½} (with the ground row's E^n), H^{n+½} → E^{n+1}
-    updateH(f);
-    updateHCpml(f, pml);
-    if (zrow) applySurfaceImpedance(f, zrow);
-    updateE(f);
-    updateECpml(f, pml);
+    // one leapfrog step: E^n → H^{n+½} (with the ground row's E^n), H^{n+½} → E^{n+1}, in one sweep over the columns
+    leapfrogStep(f, pml, zrow);
     f.ez[ks] += sourceCoef * sourceCurrent((n + 0.5) * g.dtS, omega, rampS);
     if (n >= sch.settleSteps) dft.accumulate(n, fieldsByName);
     if (windowEnd) {

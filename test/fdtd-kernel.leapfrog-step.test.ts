@@ -35,7 +35,17 @@ function fill(a: Float64Array, rng: Prng, scale: number): Float64Array {
  * [freeLo, freeHi) of every column but every fifth, which keeps random (lossy) ones there too; `profiles` > 0 shares
  * coefficient columns among several grid columns, 0 gives every column its own.
  */
-function randomGrid(nx: number, nz: number, px: number, pz: number, freeLo: number, freeHi: number, profiles: number, seed: number): Grid {
+function randomGrid(
+  nx: number,
+  nz: number,
+  px: number,
+  pz: number,
+  freeLo: number,
+  freeHi: number,
+  profiles: number,
+  seed: number,
+  graded = false,
+): Grid {
   const rng = createPrng(seed);
   const S = nz + 1;
   const size = (nx + 1) * S;
@@ -57,7 +67,8 @@ function randomGrid(nx: number, nz: number, px: number, pz: number, freeLo: numb
       caEx[q * S + k] = 1;
       cbEx[q * S + k] = cbX0;
       caEz[q * S + k] = 1;
-      cbEz[q * S + k] = cbZ0;
+      // graded: Ez's cb one value a row, as the sphere's metric factor makes it (the same in every profile)
+      cbEz[q * S + k] = graded ? cbZ0 * (1 + k / 64) : cbZ0;
     }
   }
   for (let k = freeLo; k < Math.min(freeHi, nz); k++) chz[k] = chz0;
@@ -134,7 +145,7 @@ const SHAPES: Array<[string, number, number, number, number, number, number]> = 
   ['two rows', 9, 2, 2, 0, 0, 2],
 ];
 
-type Options = { pml: boolean; ground: boolean; profiles: number };
+type Options = { pml: boolean; ground: boolean; profiles: number; graded?: boolean };
 
 function expectSameAsInTurn(make: () => Grid, o: Options): void {
   const ref = make();
@@ -157,12 +168,14 @@ const OPTIONS: Array<[string, Options]> = [
   ['CPML and impedance ground, shared column profiles', { pml: true, ground: true, profiles: 4 }],
   ['no CPML, impedance ground', { pml: false, ground: true, profiles: 0 }],
   ['CPML, no impedance ground', { pml: true, ground: false, profiles: 3 }],
+  ["CPML and impedance ground, Ez's cb varying by row in free space (the sphere)", { pml: true, ground: true, profiles: 1, graded: true }],
+  ["CPML, Ez's cb varying by row in free space, per-cell coefficients", { pml: true, ground: false, profiles: 0, graded: true }],
 ];
 
 describe('leapfrogStep against the five updates in turn', () => {
   for (const [optLabel, o] of OPTIONS) {
     it.each(SHAPES)(`when the grid has %s (%i×%i, layers %i and %i, free rows %i…%i) with ${optLabel} then six steps match bit for bit`, (_l, nx, nz, px, pz, lo, hi) => {
-      expectSameAsInTurn(() => randomGrid(nx, nz, px, pz, lo, hi, o.profiles, 20261202 + nx * 31 + nz), o);
+      expectSameAsInTurn(() => randomGrid(nx, nz, px, pz, lo, hi, o.profiles, 20261202 + nx * 31 + nz, o.graded), o);
     });
   }
 
