@@ -51,8 +51,10 @@ export function buildBenchGrid(nx: number, nz: number, layout: 'per-cell' | 'pro
   const dtS = (0.9 * CELL_M) / (C0 * Math.SQRT2);
   const caEx = new Float64Array(size);
   const cbEx = new Float64Array(size);
-  const caEz = new Float64Array(size);
-  const cbEz = new Float64Array(size);
+  // Ex and Ez of a cell share one ca and one cb, as in the native reference (its two coefficient arrays): the same
+  // arrays serve both fields, so per cell we read what it reads
+  const caEz = caEx;
+  const cbEz = cbEx;
   const slabRows = Math.floor(nz / 8);
   for (let i = 0; i <= nx; i++) {
     for (let k = 0; k <= nz; k++) {
@@ -67,8 +69,6 @@ export function buildBenchGrid(nx: number, nz: number, layout: 'per-cell' | 'pro
       const ik = i * S + k;
       caEx[ik] = ca;
       cbEx[ik] = cb;
-      caEz[ik] = ca;
-      cbEz[ik] = cb;
     }
   }
   const chz = new Float64Array(nz).fill(dtS / (MU0 * CELL_M));

@@ -432,6 +432,11 @@ interface FreeSpacePlan {
    * (a/ρ)², one value a row): the runs then read it from the coefficient arrays, the other constants stay constants.
    */
   readonly graded: boolean;
+  /**
+   * 1 where the column's rows in the top layer are all lossless with the constants (ca = 1, cbEx0, chz0; Ez's cb
+   * is read from the arrays there, graded or not): topLayerPairLossless then reads no ca and no Ex cb.
+   */
+  readonly topFree: Uint8Array;
   readonly lo: Int32Array;
   readonly hi: Int32Array;
 }
@@ -453,10 +458,11 @@ function freeSpacePlan(f: YeeFields, kTop: number): FreeSpacePlan {
   ) {
     return old;
   }
-  const { nx, caEx, cbEx, caEz, cbEz, chz, colEx, colEz } = f;
+  const { nx, nz, caEx, cbEx, caEz, cbEz, chz, colEx, colEz } = f;
   const lo = new Int32Array(nx);
   const hi = new Int32Array(nx);
   let graded = false;
+  const topFree = new Uint8Array(nx);
   // the candidate constants: the cell just below the top layer in the middle column, free space on any open grid
   const ic = nx >> 1;
   const kc = Math.max(0, kTop - 1);
@@ -488,9 +494,16 @@ function freeSpacePlan(f: YeeFields, kTop: number): FreeSpacePlan {
     lo[i] = runLo;
     hi[i] = runLo + best;
     for (let k = runLo; k < runLo + best; k++) if (!Object.is(cbEz[colEz[i] + k], cbEz0)) graded = true;
+    let top = 1;
+    for (let k = kTop; k < nz; k++) {
+      const lossless =
+        Object.is(caEx[colEx[i] + k], 1) && Object.is(cbEx[colEx[i] + k], cbEx0) && Object.is(caEz[colEz[i] + k], 1) && Object.is(chz[k], chz0);
+      if (!lossless) top = 0;
+    }
+    topFree[i] = top;
   }
   const free = Float64Array.of(cbEx0, cbEz0, chz0);
-  const plan: FreeSpacePlan = { caEx, cbEx, caEz, cbEz, chz, colEx, colEz, kTop, cbEx0, cbEz0, chz0, free, graded, lo, hi };
+  const plan: FreeSpacePlan = { caEx, cbEx, caEz, cbEz, chz, colEx, colEz, kTop, cbEx0, cbEz0, chz0, free, graded, topFree, lo, hi };
   plans.set(f, plan);
   return plan;
 }
@@ -992,6 +1005,62 @@ function topLayerPair(f: YeeFields, p: CpmlState, i: number): void {
 }
 
 /**
+ * topLayerPair where both columns' rows in the layer are lossless with the constants (FreeSpacePlan.topFree):
+ * ca = 1, Ex's cb free[0], chz free[2]; Ez's cb from the arrays (1·x = x exactly: the same numbers).
+ */
+function topLayerPairLossless(f: YeeFields, p: CpmlState, i: number, free: Float64Array): void {
+  const { nz, S, ex, ez, hy, chx, cbEz } = f;
+  const cb = free[0], c = free[2];
+  const { kz0, pz, bHz, aHz, bEx, aEx, psiHz, psiEx } = p;
+  const a = i * S;
+  const oza = (f.colEz[i] - a) | 0;
+  const ozb = (f.colEz[i + 1] - a - S) | 0;
+  const pa = f.rp[i], ma = f.rm[i], pb = f.rp[i + 1], mb = f.rm[i + 1];
+  const ta = (i * pz - kz0) | 0; // ψ index = row + ta (column i), row + ta + pz (column i+1)
+  const tb = (ta + pz) | 0;
+  let xa = ex[a + kz0], xb = ex[a + S + kz0];
+  let ha = hy[a + kz0 - 1], hb = hy[a + S + kz0 - 1];
+  for (let k = kz0; k < nz; k++) {
+    const ik = (a + k) | 0;
+    const jk = (ik + S) | 0;
+    const j = (k - kz0) | 0;
+    const bh = bHz[j], ah = aHz[j], be = bEx[j], ae = aEx[j];
+    const xa1 = ex[(ik + 1) | 0], xb1 = ex[(jk + 1) | 0];
+    const za = ez[ik], zb = ez[jk], zc = ez[(jk + S) | 0];
+    const dxa = xa1 - xa, dxb = xb1 - xb;
+    // Hy += chx·ΔEz − chz·ΔEx, then ψ ← bψ + a·ΔEx, Hy −= chz·ψ
+    let h0 = hy[ik] + (chx * (zb - za) - c * dxa);
+    let h1 = hy[jk] + (chx * (zc - zb) - c * dxb);
+    const qa = (k + ta) | 0, qb = (k + tb) | 0;
+    const psa = bh * psiHz[qa] + ah * dxa;
+    const psb = bh * psiHz[qb] + ah * dxb;
+    psiHz[qa] = psa;
+    psiHz[qb] = psb;
+    h0 -= c * psa;
+    h1 -= c * psb;
+    hy[ik] = h0;
+    hy[jk] = h1;
+    // Ex = ca·Ex + cb·ΔHy, then ψ ← bψ + a·ΔHy, Ex += cb·ψ; Ez = ca·Ez + cb·(r₊Hy − r₋Hy(i−1))
+    const dha = ha - h0, dhb = hb - h1;
+    const ea = xa + cb * dha;
+    const eb = xb + cb * dhb;
+    const pea = be * psiEx[qa] + ae * dha;
+    const peb = be * psiEx[qb] + ae * dhb;
+    psiEx[qa] = pea;
+    psiEx[qb] = peb;
+    ex[ik] = ea + cb * pea;
+    ex[jk] = eb + cb * peb;
+    const sa = (ik + oza) | 0, sb = (jk + ozb) | 0;
+    ez[ik] = za + cbEz[sa] * (pa * h0 - ma * hy[(ik - S) | 0]);
+    ez[jk] = zb + cbEz[sb] * (pb * h1 - mb * h0);
+    xa = xa1;
+    xb = xb1;
+    ha = h0;
+    hb = h1;
+  }
+}
+
+/**
  * Column i = ix0 + j of the far-side layer (ix0 ≥ 1), whole: H of every row with the layer's ψ term (and the top
  * layer's above kz0), the ground row, then Ex and Ez of every row with their ψ terms; each cell as the five updates
  * write it, in the same order of operations (Roden & Gedney 2000).
@@ -1180,7 +1249,7 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
     if (p) updateECpml(f, p);
     return;
   }
-  const { lo, hi, cbEx0, cbEz0, chz0, free, graded } = freeSpacePlan(f, kTop);
+  const { lo, hi, cbEx0, cbEz0, chz0, free, graded, topFree } = freeSpacePlan(f, kTop);
   const head = Math.min(2, nz);
   // the axis column, rows below the top layer, update after update; then its rows in the top layer
   hRows(f, 0, 0, kTop);
@@ -1207,7 +1276,10 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
     } else {
       fusedPairRows(f, i, 2, kTop);
     }
-    if (pz > 0) topLayerPair(f, p!, i);
+    if (pz > 0) {
+      if (topFree[i] & topFree[i + 1]) topLayerPairLossless(f, p!, i, free);
+      else topLayerPair(f, p!, i);
+    }
   }
   if (i < ix0) {
     // the column left over when the count is odd
