@@ -1220,6 +1220,41 @@ function farLayerPair(f: YeeFields, p: CpmlState, z: ImpedanceRow | undefined, j
   }
 }
 
+/**
+ * groundRows for columns i and i+1 ≥ 1 together, written out (nz ≥ 2): H of rows 0 and 1 of both columns, their
+ * ground rows, then Ex of row 1 and Ez of rows 0 and 1 of both; column i+1's E reads column i's new H, finished
+ * first, and column i+1's H reads nothing column i's E writes, so the order is free (see the section comment).
+ */
+function groundPair(f: YeeFields, z: ImpedanceRow | undefined, i: number): void {
+  const { S, ex, ez, hy, chx, chz, caEx, cbEx, caEz, cbEz } = f;
+  const a = i * S;
+  const b = (a + S) | 0;
+  const c0 = chz[0], c1 = chz[1];
+  // Hy^{n+½} = Hy^{n−½} + chx·(Ez(i+1) − Ez(i)) − chz·(Ex(k+1) − Ex(k)), rows 0 and 1
+  const ea0 = ez[a], ea1 = ez[(a + 1) | 0], eb0 = ez[b], eb1 = ez[(b + 1) | 0];
+  const xa0 = ex[a], xa1 = ex[(a + 1) | 0], xa2 = ex[(a + 2) | 0];
+  const xb0 = ex[b], xb1 = ex[(b + 1) | 0], xb2 = ex[(b + 2) | 0];
+  hy[a] += chx * (eb0 - ea0) - c0 * (xa1 - xa0);
+  hy[(a + 1) | 0] += chx * (eb1 - ea1) - c1 * (xa2 - xa1);
+  hy[b] += chx * (ez[(b + S) | 0] - eb0) - c0 * (xb1 - xb0);
+  hy[(b + 1) | 0] += chx * (ez[(b + S + 1) | 0] - eb1) - c1 * (xb2 - xb1);
+  if (z) {
+    surfaceImpedanceColumn(f, z, i);
+    surfaceImpedanceColumn(f, z, i + 1);
+  }
+  // Ex^{n+1} of row 1 = ca·Ex^n + cb·(Hy(0) − Hy(1)); Ez^{n+1} of rows 0, 1 = ca·Ez^n + cb·(r₊·Hy(i) − r₋·Hy(i−1))
+  const ha0 = hy[a], ha1 = hy[(a + 1) | 0], hb0 = hy[b], hb1 = hy[(b + 1) | 0];
+  const ua = (f.colEx[i] + 1) | 0, ub = (f.colEx[i + 1] + 1) | 0;
+  ex[(a + 1) | 0] = caEx[ua] * xa1 + cbEx[ua] * (ha0 - ha1);
+  ex[(b + 1) | 0] = caEx[ub] * xb1 + cbEx[ub] * (hb0 - hb1);
+  const sa = f.colEz[i], sb = f.colEz[i + 1];
+  const pa = f.rp[i], ma = f.rm[i], pb = f.rp[i + 1], mb = f.rm[i + 1];
+  ez[a] = caEz[sa] * ea0 + cbEz[sa] * (pa * ha0 - ma * hy[(a - S) | 0]);
+  ez[(a + 1) | 0] = caEz[(sa + 1) | 0] * ea1 + cbEz[(sa + 1) | 0] * (pa * ha1 - ma * hy[(a - S + 1) | 0]);
+  ez[b] = caEz[sb] * eb0 + cbEz[sb] * (pb * hb0 - mb * ha0);
+  ez[(b + 1) | 0] = caEz[(sb + 1) | 0] * eb1 + cbEz[(sb + 1) | 0] * (pb * hb1 - mb * ha1);
+}
+
 /** Rows 0 and 1 of column i ≥ 1: H, the ground row's Ex (which needs H of both), then E. */
 function groundRows(f: YeeFields, z: ImpedanceRow | undefined, i: number, head: number): void {
   hRows(f, i, 0, head);
@@ -1263,8 +1298,7 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
   }
   let i = 1;
   for (; i + 1 < ix0; i += 2) {
-    groundRows(f, z, i, head);
-    groundRows(f, z, i + 1, head);
+    groundPair(f, z, i);
     // rows 2 … kTop−1 of both columns; constant coefficients where both columns have free space
     const fLo = Math.max(lo[i], lo[i + 1]);
     const fHi = Math.min(hi[i], hi[i + 1]);
