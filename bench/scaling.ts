@@ -16,7 +16,7 @@ import { estimateCost } from '../solver/index.js';
 import { SolverPool } from '../worker/thread-pool.js';
 import { buildNativeReference, defaultReferenceDir, nativePairScaling } from './native-reference.js';
 
-/** An invented small case (0.3–1.5 s of solving on this machine kind, by range): 30 kHz over wet farmland. */
+/** An invented case (about 0.1 s of solving at 80 km on this machine kind, growing as the range squared): 30 kHz over wet farmland. */
 function smallCase(rangeM: number): CaseInput {
   return {
     geometry: 'axisymmetric',
@@ -28,10 +28,13 @@ function smallCase(rangeM: number): CaseInput {
   };
 }
 
-/** Equal jobs: four of one range (two per thread when there are two). */
-const EQUAL_RANGES_M = [80_000, 80_000, 80_000, 80_000];
-/** Unequal jobs: ranges whose costs differ by up to about 5×, given in no particular order. */
-const UNEQUAL_RANGES_M = [40_000, 120_000, 60_000, 160_000, 80_000, 50_000, 100_000];
+/**
+ * Equal jobs: four of one range (two per thread when there are two), about 1 s each, so that a thread's start-up
+ * and the pool's messages weigh as little beside the solving as in a real sweep.
+ */
+const EQUAL_RANGES_M = [240_000, 240_000, 240_000, 240_000];
+/** Unequal jobs: ranges whose costs differ by up to about 16× (0.15–2.5 s), given in no particular order. */
+const UNEQUAL_RANGES_M = [100_000, 300_000, 150_000, 400_000, 200_000, 125_000, 250_000];
 
 function median(xs: readonly number[]): number {
   const s = [...xs].sort((a, b) => a - b);
