@@ -439,6 +439,13 @@ interface FreeSpacePlan {
   readonly topFree: Uint8Array;
   readonly lo: Int32Array;
   readonly hi: Int32Array;
+  /**
+   * Per column, rows 2 … kTop−1 cut into runs of one material: triples (first row, end row, uniform) from
+   * runs[runAt[i]] to runs[runAt[i+1]], uniform = 1 where every coefficient is the same on every row of the run
+   * (the free-space run [lo, hi) is one of them, uniform unless graded).
+   */
+  readonly runs: Int32Array;
+  readonly runAt: Int32Array;
 }
 
 const plans = new WeakMap<YeeFields, FreeSpacePlan>();
@@ -503,7 +510,54 @@ function freeSpacePlan(f: YeeFields, kTop: number): FreeSpacePlan {
     topFree[i] = top;
   }
   const free = Float64Array.of(cbEx0, cbEz0, chz0);
-  const plan: FreeSpacePlan = { caEx, cbEx, caEz, cbEz, chz, colEx, colEz, kTop, cbEx0, cbEz0, chz0, free, graded, topFree, lo, hi };
+  // the runs of one material outside the free-space run, and that run itself
+  const runList: number[] = [];
+  const runAt = new Int32Array(nx + 1);
+  for (let i = 0; i < nx; i++) {
+    runAt[i] = runList.length;
+    const cx = colEx[i];
+    const cz = colEz[i];
+    const sameAsBelow = (k: number): boolean =>
+      Object.is(caEx[cx + k], caEx[cx + k - 1]) &&
+      Object.is(cbEx[cx + k], cbEx[cx + k - 1]) &&
+      Object.is(caEz[cz + k], caEz[cz + k - 1]) &&
+      Object.is(cbEz[cz + k], cbEz[cz + k - 1]) &&
+      Object.is(chz[k], chz[k - 1]);
+    const cut = (k0: number, k1: number): void => {
+      let start = k0;
+      for (let k = k0 + 1; k <= k1; k++) {
+        if (k === k1 || !sameAsBelow(k)) {
+          if (k > start) runList.push(start, k, 1);
+          start = k;
+        }
+      }
+    };
+    cut(2, lo[i]);
+    if (hi[i] > lo[i]) runList.push(lo[i], hi[i], graded ? 0 : 1);
+    cut(Math.max(2, hi[i]), kTop);
+  }
+  runAt[nx] = runList.length;
+  const runs = Int32Array.from(runList);
+  const plan: FreeSpacePlan = {
+    caEx,
+    cbEx,
+    caEz,
+    cbEz,
+    chz,
+    colEx,
+    colEz,
+    kTop,
+    cbEx0,
+    cbEz0,
+    chz0,
+    free,
+    graded,
+    topFree,
+    lo,
+    hi,
+    runs,
+    runAt,
+  };
   plans.set(f, plan);
   return plan;
 }
@@ -784,6 +838,70 @@ function fusedPairRows(f: YeeFields, i: number, k0: number, k1: number): void {
     const sa = (ik + oza) | 0, sb = (jk + ozb) | 0;
     ez[ik] = caEz[sa] * za0 + cbEz[sa] * (pa * ha0 - ma * hy[(ik - S) | 0]);
     ez[jk] = caEz[sb] * zb0 + cbEz[sb] * (pb * hb0 - mb * ha0);
+  }
+}
+
+/**
+ * fusedPairRows on rows [k0, k1) where each column's coefficients are the same on every row (a run of one
+ * material, FreeSpacePlan.runs): each column's ca, cb and the rows' chz are read once, before the loop, so the
+ * loop reads no coefficient array (lossy cells in a loop of their own; the same numbers as with the arrays).
+ */
+function fusedPairUniformRows(f: YeeFields, i: number, k0: number, k1: number): void {
+  const { S, ex, ez, hy, chx, chz, caEx, cbEx, caEz, cbEz } = f;
+  const a = i * S; // column i; column i+1 starts at a + S
+  // the run's coefficients, one set a column (read once: inside the loop they are constants)
+  const xA = f.colEx[i] + k0, xB = f.colEx[i + 1] + k0, zA = f.colEz[i] + k0, zB = f.colEz[i + 1] + k0;
+  const caXa = caEx[xA], cbXa = cbEx[xA], caXb = caEx[xB], cbXb = cbEx[xB];
+  const caZa = caEz[zA], cbZa = cbEz[zA], caZb = caEz[zB], cbZb = cbEz[zB];
+  const c = chz[k0];
+  const pa = f.rp[i], ma = f.rm[i], pb = f.rp[i + 1], mb = f.rm[i + 1];
+  let xa = ex[a + k0], xb = ex[a + S + k0];
+  let ha = hy[a + k0 - 1], hb = hy[a + S + k0 - 1];
+  let ik = (a + k0) | 0;
+  const end = (a + k1) | 0;
+  for (; ik + 1 < end; ik = (ik + 2) | 0) {
+    const jk = (ik + S) | 0; // the same row of column i+1
+    // old E: Ex of rows k+1, k+2 (both columns), Ez of rows k, k+1 in columns i, i+1, i+2
+    const xa1 = ex[(ik + 1) | 0], xa2 = ex[(ik + 2) | 0], xb1 = ex[(jk + 1) | 0], xb2 = ex[(jk + 2) | 0];
+    const za0 = ez[ik], za1 = ez[(ik + 1) | 0], zb0 = ez[jk], zb1 = ez[(jk + 1) | 0];
+    const zc0 = ez[(jk + S) | 0], zc1 = ez[(jk + S + 1) | 0];
+    // Hy^{n+½} = Hy^{n−½} + chx·(Ez(i+1) − Ez(i)) − chz·(Ex(k+1) − Ex(k))
+    const ha0 = hy[ik] + (chx * (zb0 - za0) - c * (xa1 - xa));
+    const ha1 = hy[(ik + 1) | 0] + (chx * (zb1 - za1) - c * (xa2 - xa1));
+    const hb0 = hy[jk] + (chx * (zc0 - zb0) - c * (xb1 - xb));
+    const hb1 = hy[(jk + 1) | 0] + (chx * (zc1 - zb1) - c * (xb2 - xb1));
+    hy[ik] = ha0;
+    hy[(ik + 1) | 0] = ha1;
+    hy[jk] = hb0;
+    hy[(jk + 1) | 0] = hb1;
+    // Ex^{n+1} = ca·Ex^n + cb·(Hy(k−1) − Hy(k))
+    ex[ik] = caXa * xa + cbXa * (ha - ha0);
+    ex[(ik + 1) | 0] = caXa * xa1 + cbXa * (ha0 - ha1);
+    ex[jk] = caXb * xb + cbXb * (hb - hb0);
+    ex[(jk + 1) | 0] = caXb * xb1 + cbXb * (hb0 - hb1);
+    // Ez^{n+1} = ca·Ez^n + cb·(r₊·Hy(i) − r₋·Hy(i−1)); Hy(i−1) of column i+1 is column i's new Hy
+    ez[ik] = caZa * za0 + cbZa * (pa * ha0 - ma * hy[(ik - S) | 0]);
+    ez[(ik + 1) | 0] = caZa * za1 + cbZa * (pa * ha1 - ma * hy[(ik - S + 1) | 0]);
+    ez[jk] = caZb * zb0 + cbZb * (pb * hb0 - mb * ha0);
+    ez[(jk + 1) | 0] = caZb * zb1 + cbZb * (pb * hb1 - mb * ha1);
+    xa = xa2;
+    xb = xb2;
+    ha = ha1;
+    hb = hb1;
+  }
+  if (ik < end) {
+    // the last row when the count is odd: the same updates, one row
+    const jk = (ik + S) | 0;
+    const xa1 = ex[(ik + 1) | 0], xb1 = ex[(jk + 1) | 0];
+    const za0 = ez[ik], zb0 = ez[jk], zc0 = ez[(jk + S) | 0];
+    const ha0 = hy[ik] + (chx * (zb0 - za0) - c * (xa1 - xa));
+    const hb0 = hy[jk] + (chx * (zc0 - zb0) - c * (xb1 - xb));
+    hy[ik] = ha0;
+    hy[jk] = hb0;
+    ex[ik] = caXa * xa + cbXa * (ha - ha0);
+    ex[jk] = caXb * xb + cbXb * (hb - hb0);
+    ez[ik] = caZa * za0 + cbZa * (pa * ha0 - ma * hy[(ik - S) | 0]);
+    ez[jk] = caZb * zb0 + cbZb * (pb * hb0 - mb * ha0);
   }
 }
 
@@ -1263,6 +1381,28 @@ function groundRows(f: YeeFields, z: ImpedanceRow | undefined, i: number, head: 
 }
 
 /**
+ * Rows [k0, k1) of columns i and i+1 below the top layer, outside their common free-space rows: where both columns
+ * are in a run of one material the uniform loop, elsewhere the coefficient arrays.
+ */
+function pairRowsByRun(f: YeeFields, i: number, k0: number, k1: number, plan: FreeSpacePlan): void {
+  const { runs, runAt } = plan;
+  let ra = runAt[i];
+  let rb = runAt[i + 1];
+  const endA = runAt[i + 1];
+  const endB = runAt[i + 2];
+  let k = k0;
+  while (k < k1) {
+    // the runs of both columns that hold row k (the runs of a column tile rows 2 … kTop−1)
+    while (ra < endA && runs[ra + 1] <= k) ra += 3;
+    while (rb < endB && runs[rb + 1] <= k) rb += 3;
+    const e = Math.min(k1, runs[ra + 1], runs[rb + 1]);
+    if (runs[ra + 2] === 1 && runs[rb + 2] === 1 && e - k >= 4) fusedPairUniformRows(f, i, k, e);
+    else fusedPairRows(f, i, k, e);
+    k = e;
+  }
+}
+
+/**
  * One leapfrog step, E^n → H^{n+½} → E^{n+1}: the same numbers as
  *   updateH(f); if (p) updateHCpml(f, p); if (z) applySurfaceImpedance(f, z); updateE(f); if (p) updateECpml(f, p)
  * The columns go in one sweep (see the section comments above): the axis column; then pairs of columns, each pair's
@@ -1284,7 +1424,8 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
     if (p) updateECpml(f, p);
     return;
   }
-  const { lo, hi, cbEx0, cbEz0, chz0, free, graded, topFree } = freeSpacePlan(f, kTop);
+  const plan = freeSpacePlan(f, kTop);
+  const { lo, hi, cbEx0, cbEz0, chz0, free, graded, topFree } = plan;
   const head = Math.min(2, nz);
   // the axis column, rows below the top layer, update after update; then its rows in the top layer
   hRows(f, 0, 0, kTop);
@@ -1303,12 +1444,12 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
     const fLo = Math.max(lo[i], lo[i + 1]);
     const fHi = Math.min(hi[i], hi[i + 1]);
     if (fHi > fLo) {
-      fusedPairRows(f, i, 2, fLo);
+      pairRowsByRun(f, i, 2, fLo, plan);
       if (graded) fusedPairGradedRows(f, i, fLo, fHi, free);
       else fusedPairFreeRows(f, i, fLo, fHi, free);
-      fusedPairRows(f, i, fHi, kTop);
+      pairRowsByRun(f, i, fHi, kTop, plan);
     } else {
-      fusedPairRows(f, i, 2, kTop);
+      pairRowsByRun(f, i, 2, kTop, plan);
     }
     if (pz > 0) {
       if (topFree[i] & topFree[i + 1]) topLayerPairLossless(f, p!, i, free);

@@ -45,6 +45,7 @@ function randomGrid(
   profiles: number,
   seed: number,
   graded = false,
+  lossyRuns = false,
 ): Grid {
   const rng = createPrng(seed);
   const S = nz + 1;
@@ -72,6 +73,22 @@ function randomGrid(
     }
   }
   for (let k = freeLo; k < Math.min(freeHi, nz); k++) chz[k] = chz0;
+  if (lossyRuns) {
+    // rows 2 … freeLo−1 of one lossy material a profile (its own ca and cb, one chz), as a layered ground makes them;
+    // every third profile splits its run in two at row 4, so runs of the two columns of a pair end at other rows
+    const chzL = 0.1875;
+    for (let k = 2; k < Math.min(freeLo, nz); k++) chz[k] = chzL;
+    for (let q = 0; q < nProfiles; q++) {
+      const v = [0.5 + 0.1 * (q % 4), 0.2 + 0.01 * q, 0.6 + 0.05 * (q % 3), 0.3 - 0.01 * (q % 7)];
+      for (let k = 2; k < Math.min(freeLo, nz); k++) {
+        const w = q % 3 === 0 && k >= 4 ? 0.5 : 1;
+        caEx[q * S + k] = v[0] * w;
+        cbEx[q * S + k] = v[1];
+        caEz[q * S + k] = v[2];
+        cbEz[q * S + k] = v[3] * w;
+      }
+    }
+  }
   const f: YeeFields = {
     nx,
     nz,
@@ -145,7 +162,7 @@ const SHAPES: Array<[string, number, number, number, number, number, number]> = 
   ['two rows', 9, 2, 2, 0, 0, 2],
 ];
 
-type Options = { pml: boolean; ground: boolean; profiles: number; graded?: boolean };
+type Options = { pml: boolean; ground: boolean; profiles: number; graded?: boolean; lossyRuns?: boolean };
 
 function expectSameAsInTurn(make: () => Grid, o: Options): void {
   const ref = make();
@@ -170,12 +187,14 @@ const OPTIONS: Array<[string, Options]> = [
   ['CPML, no impedance ground', { pml: true, ground: false, profiles: 3 }],
   ["CPML and impedance ground, Ez's cb varying by row in free space (the sphere)", { pml: true, ground: true, profiles: 1, graded: true }],
   ["CPML, Ez's cb varying by row in free space, per-cell coefficients", { pml: true, ground: false, profiles: 0, graded: true }],
+  ['CPML and impedance ground, lossy rows of one material a column below free space', { pml: true, ground: true, profiles: 0, lossyRuns: true }],
+  ['impedance ground, lossy runs below free space, shared column profiles', { pml: false, ground: true, profiles: 5, lossyRuns: true }],
 ];
 
 describe('leapfrogStep against the five updates in turn', () => {
   for (const [optLabel, o] of OPTIONS) {
     it.each(SHAPES)(`when the grid has %s (%i×%i, layers %i and %i, free rows %i…%i) with ${optLabel} then six steps match bit for bit`, (_l, nx, nz, px, pz, lo, hi) => {
-      expectSameAsInTurn(() => randomGrid(nx, nz, px, pz, lo, hi, o.profiles, 20261202 + nx * 31 + nz, o.graded), o);
+      expectSameAsInTurn(() => randomGrid(nx, nz, px, pz, lo, hi, o.profiles, 20261202 + nx * 31 + nz, o.graded, o.lossyRuns), o);
     });
   }
 
