@@ -593,22 +593,6 @@ function eRows(f: YeeFields, i: number, k0: number, k1: number): void {
   }
 }
 
-/** Far-side CPML of column i = ix0 + j, H part: ψ ← bψ + a·∂Ez, Hy += chx·ψ (Roden & Gedney 2000). */
-function hCpmlFarColumn(f: YeeFields, p: CpmlState, j: number): void {
-  const { nz, S, ez, hy, chx } = f;
-  const base = (p.ix0 + j) * S;
-  const pbase = j * S;
-  const { psiHx } = p;
-  const bj = p.bHx[j];
-  const aj = p.aHx[j];
-  for (let k = 0; k < nz; k++) {
-    const ik = base + k;
-    const psi = bj * psiHx[pbase + k] + aj * (ez[ik + S] - ez[ik]);
-    psiHx[pbase + k] = psi;
-    hy[ik] += chx * psi;
-  }
-}
-
 /** Top CPML of column i, H part: ψ ← bψ + a·∂Ex, Hy −= chz·ψ. */
 function hCpmlTopColumn(f: YeeFields, p: CpmlState, i: number): void {
   const { S, ex, hy, chz } = f;
@@ -620,24 +604,6 @@ function hCpmlTopColumn(f: YeeFields, p: CpmlState, i: number): void {
     const psi = bHz[j] * psiHz[pbase + j] + aHz[j] * (ex[ik + 1] - ex[ik]);
     psiHz[pbase + j] = psi;
     hy[ik] -= chz[kz0 + j] * psi;
-  }
-}
-
-/** Far-side CPML of column i = ix0 + j ≥ 1, E part: ψ ← bψ + a·∂Hy, Ez += cbEz·ψ. */
-function eCpmlFarColumn(f: YeeFields, p: CpmlState, j: number): void {
-  const { nz, S, ez, hy, cbEz, colEz } = f;
-  const i = p.ix0 + j;
-  const base = i * S;
-  const oEz = colEz[i] - base;
-  const pbase = j * S;
-  const { psiEz } = p;
-  const bj = p.bEz[j];
-  const aj = p.aEz[j];
-  for (let k = 0; k < nz; k++) {
-    const ik = base + k;
-    const psi = bj * psiEz[pbase + k] + aj * (hy[ik] - hy[ik - S]);
-    psiEz[pbase + k] = psi;
-    ez[ik] += cbEz[ik + oEz] * psi;
   }
 }
 
@@ -714,11 +680,12 @@ function fusedRows(f: YeeFields, i: number, k0: number, k1: number): void {
 }
 
 /**
- * fusedRows in free space: ca = 1, cb = cbEx0 / cbEz0, Δt/(μ0Δz) = chz0 on every row, so the coefficients are
- * constants of the loop and no coefficient array is read (1·x = x exactly: the same numbers as with the arrays).
+ * fusedRows in free space: ca = 1, cb = free[0] (Ex) / free[1] (Ez), Δt/(μ0Δz) = free[2] on every row, so the
+ * coefficients are constants of the loop and no coefficient array is read (1·x = x exactly: the same numbers).
  */
-function fusedFreeRows(f: YeeFields, i: number, k0: number, k1: number, cbEx0: number, cbEz0: number, chz0: number): void {
+function fusedFreeRows(f: YeeFields, i: number, k0: number, k1: number, free: Float64Array): void {
   const { S, ex, ez, hy, chx } = f;
+  const cbEx0 = free[0], cbEz0 = free[1], chz0 = free[2];
   const base = i * S;
   const p = f.rp[i];
   const m = f.rm[i];
@@ -1425,7 +1392,7 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
     return;
   }
   const plan = freeSpacePlan(f, kTop);
-  const { lo, hi, cbEx0, cbEz0, chz0, free, graded, topFree } = plan;
+  const { lo, hi, free, graded, topFree } = plan;
   const head = Math.min(2, nz);
   // the axis column, rows below the top layer, update after update; then its rows in the top layer
   hRows(f, 0, 0, kTop);
@@ -1463,7 +1430,7 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
       fusedRows(f, i, 2, kTop);
     } else {
       fusedRows(f, i, 2, lo[i]);
-      fusedFreeRows(f, i, lo[i], hi[i], cbEx0, cbEz0, chz0);
+      fusedFreeRows(f, i, lo[i], hi[i], free);
       fusedRows(f, i, hi[i], kTop);
     }
     if (pz > 0) topLayerColumn(f, p!, i);
