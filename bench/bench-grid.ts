@@ -11,6 +11,7 @@ import {
   updateECpml,
   updateH,
   updateHCpml,
+  yeeFields,
   type CpmlState,
   type ImpedanceRow,
   type YeeFields,
@@ -79,7 +80,7 @@ export function buildBenchGrid(nx: number, nz: number, layout: 'per-cell' | 'pro
     rp[i] = (i + 0.5) / i;
     rm[i] = (i - 0.5) / i;
   }
-  const fields: YeeFields = {
+  const fields = yeeFields({
     nx,
     nz,
     S,
@@ -97,7 +98,7 @@ export function buildBenchGrid(nx: number, nz: number, layout: 'per-cell' | 'pro
     rp,
     rm,
     axisFactor: 4,
-  };
+  });
   // deterministic integer patterns, so every cell carries a non-zero value from the first step
   for (let i = 1; i < nx; i++) for (let k = 0; k < nz; k++) fields.ez[i * S + k] = 1e-3 * (((i * 7 + k * 13) % 17) - 8);
   for (let i = 0; i < nx; i++) {

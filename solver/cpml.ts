@@ -2,7 +2,7 @@
 // Each absorbing cell keeps an auxiliary ψ per field: ψ ← b·ψ + a·(difference of the field across the cell),
 // and the update adds ψ to the plain curl. κ = 1 (the grid is many cells per wavelength; stretching buys little).
 import { EPS0, ETA0 } from './constants.js';
-import type { CpmlState } from './fdtd-kernel.js';
+import { cpmlState, type CpmlState } from './fdtd-kernel.js';
 
 export interface CpmlProfile {
   /** Coefficient b at depth position j (half-integer positions for H, integer for E; see `positions`). */
@@ -63,7 +63,7 @@ export function buildCpmlState(
   const ez = cpmlProfile(px, 0, px, cellM, dtS, frequencyHz);
   const hz = cpmlProfile(pz, 0.5, pz, cellM, dtS, frequencyHz);
   const ex = cpmlProfile(pz, 0, pz, cellM, dtS, frequencyHz);
-  return {
+  return cpmlState({
     ix0: nx - px,
     px,
     kz0: nz - pz,
@@ -80,5 +80,5 @@ export function buildCpmlState(
     psiEz: new Float64Array(px * S),
     psiHz: new Float64Array(nx * pz),
     psiEx: new Float64Array(nx * pz),
-  };
+  });
 }

@@ -5,7 +5,7 @@ import type { ReceiverResult, SolveResult } from '../schemas/result.js';
 import { C0, MU0 } from './constants.js';
 import { buildCpmlState } from './cpml.js';
 import { SolveCancelledError, SolverDivergedError } from './errors.js';
-import { leapfrogStep, type CpmlState, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
+import { leapfrogStep, yeeFields, type CpmlState, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
 import { buildMaterials, magneticCoefficients, metricUnscale, planGrid, radialFactors, sourceCellAreaM2, type GridPlan } from './grid.js';
 import { buildReceiverTaps, ReceiverBank } from './receivers.js';
 import { sourceCurrent, targetMoment } from './source.js';
@@ -81,7 +81,7 @@ export function buildYeeGrid(c: Case, g: GridPlan = planGrid(c)): YeeGrid {
   const size = (nx + 1) * S;
   const mat = buildMaterials(c, g);
   const { rp, rm, axisFactor } = radialFactors(c, nx, g);
-  const f: YeeFields = {
+  const f = yeeFields({
     nx,
     nz,
     S,
@@ -93,7 +93,7 @@ export function buildYeeGrid(c: Case, g: GridPlan = planGrid(c)): YeeGrid {
     rp,
     rm,
     axisFactor,
-  };
+  });
 
   const pml = buildCpmlState(nx, nz, g.pmlX, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
 

@@ -6,7 +6,7 @@ import { C0 } from './constants.js';
 import { unwrapNearRad } from './phase.js';
 import { abs, arg, div, fromPolar, mul, sub, type C } from './references/complex.js';
 import { buildCpmlState } from './cpml.js';
-import { applySurfaceImpedance, updateE, updateECpml, updateH, updateHCpml, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
+import { applySurfaceImpedance, updateE, updateECpml, updateH, updateHCpml, yeeFields, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
 import { buildMaterials, magneticCoefficients, planGrid } from './grid.js';
 import { RunningDft, type Tap } from './receivers.js';
 import { sourceCurrent } from './source.js';
@@ -60,7 +60,7 @@ export function runNormalIncidence(c: Case): NormalIncidenceResult {
     return out;
   };
   const { chz } = magneticCoefficients(g);
-  const f: YeeFields = {
+  const f = yeeFields({
     nx: 1,
     nz,
     S,
@@ -78,7 +78,7 @@ export function runNormalIncidence(c: Case): NormalIncidenceResult {
     rp: new Float64Array(2).fill(1),
     rm: new Float64Array(2).fill(1),
     axisFactor: 0,
-  };
+  });
   const pml = buildCpmlState(1, nz, 0, g.pmlTop, g.dxM, g.dtS, c.frequency_hz);
   let zrow: ImpedanceRow | undefined;
   if (c.ground.model === 'impedance') {

@@ -1,7 +1,7 @@
 // Surface impedance of a homogeneous ground at one frequency, and its time-domain coefficients.
 // The Leontovich condition E_tan = Zs·(n̂ × H) is applied at the ground row as E = −(R·H + L·dH/dt).
 import { EPS0, ETA0, MU0 } from './constants.js';
-import type { ImpedanceRow } from './fdtd-kernel.js';
+import { impedanceRow, type ImpedanceRow } from './fdtd-kernel.js';
 
 export interface GroundImpedance {
   /** Surface resistance R = Re(Zs), Ω. */
@@ -68,5 +68,5 @@ export function buildImpedanceRow(
   const wNear = extrapolated ? 1.5 : 1;
   const wFar = extrapolated ? -0.5 : 0;
   // (x·1 is x exactly in IEEE 754, so the flat grids' weights are the plain 1.5 and −0.5)
-  return { halfR, lOverDt, wNear: wNear * rowScale[0], wFar: wFar * rowScale[1], hsPrev: new Float64Array(n) };
+  return impedanceRow({ halfR, lOverDt, wNear: wNear * rowScale[0], wFar: wFar * rowScale[1], hsPrev: new Float64Array(n) });
 }
