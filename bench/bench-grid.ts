@@ -42,7 +42,7 @@ const CELL_M = 0.01;
 const CONDUCTOR_S_PER_M = 1e4;
 
 /** Build an nx × nz grid (cells), one stride S = nz + 1 for every array, as solver/grid.ts lays it out. */
-export function buildBenchGrid(nx: number, nz: number, layout: 'per-cell' | 'profiles' = 'per-cell'): BenchGrid {
+export function buildBenchGrid(nx: number, nz: number, layout: 'per-cell' | 'profiles' = 'per-cell', fields32 = false): BenchGrid {
   const S = nz + 1;
   const size = (nx + 1) * S;
   const colEx = new Int32Array(nx + 1);
@@ -84,9 +84,10 @@ export function buildBenchGrid(nx: number, nz: number, layout: 'per-cell' | 'pro
     nx,
     nz,
     S,
-    ex: new Float64Array(size),
-    ez: new Float64Array(size),
-    hy: new Float64Array(size),
+    // grid.field_precision float32: only the three field arrays are single precision
+    ex: fields32 ? new Float32Array(size) : new Float64Array(size),
+    ez: fields32 ? new Float32Array(size) : new Float64Array(size),
+    hy: fields32 ? new Float32Array(size) : new Float64Array(size),
     caEx,
     cbEx,
     caEz,

@@ -4,7 +4,7 @@
 // A benchmark, not a test: it asserts nothing and prints a table (or `--json`); speed targets are read from it.
 import { execFileSync } from 'node:child_process';
 import { cpus, loadavg } from 'node:os';
-import { Command, InvalidArgumentError } from 'commander';
+import { Command, InvalidArgumentError, Option } from 'commander';
 import { solve } from '../solver/index.js';
 import { demoCase } from './bench-cases.js';
 import { buildBenchGrid, fieldEnergy, runKernel, type BenchGrid, type KernelVariant } from './bench-grid.js';
@@ -76,6 +76,7 @@ interface BenchReport {
   loadAverageBefore: number[];
   loadAverageAfter: number[];
   pinnedToCore0: boolean;
+  fields: 'float64' | 'float32';
   native: { build: string } | { skipped: string };
   repeats: number;
   sizes: SizeResult[];
@@ -107,13 +108,14 @@ function benchSize(
   measures: readonly Measure[],
   ref: NativeReference | undefined,
   log: (s: string) => void,
+  fields32: boolean,
 ): SizeResult {
   const { nx, nz } = size;
   const steps = Math.max(1, Math.round(CELL_UPDATES_PER_RUN / (nx * nz)));
   const cells = nx * nz * steps;
   const variantOf: Record<Measure, KernelVariant> = { plain: 'plain', cpml: 'cpml', profiles: 'profiles', inTurn: 'plain', cpmlInTurn: 'cpml' };
   const grids = new Map<Measure, BenchGrid>();
-  for (const m of measures) grids.set(m, buildBenchGrid(nx, nz, m === 'profiles' ? 'profiles' : 'per-cell'));
+  for (const m of measures) grids.set(m, buildBenchGrid(nx, nz, m === 'profiles' ? 'profiles' : 'per-cell', fields32));
   const nativeRuns: number[] = [];
   const runs = new Map<Measure, number[]>(measures.map((m) => [m, []]));
   const nativeShares: number[] = [];
@@ -189,7 +191,7 @@ function fmt(x: number | null, digits: number): string {
 function printTable(rep: BenchReport): void {
   const out: string[] = [];
   out.push(`loamwave kernel benchmark, ${rep.date}`);
-  out.push(`node ${rep.node}, ${rep.cpu}, main thread ${rep.pinnedToCore0 ? 'pinned to core 0' : 'not pinned'}`);
+  out.push(`node ${rep.node}, ${rep.cpu}, main thread ${rep.pinnedToCore0 ? 'pinned to core 0' : 'not pinned'}; fields in ${rep.fields}${rep.fields === 'float32' ? ' (the C reference stays double)' : ''}`);
   const loads = (l: number[]): string => l.map((x) => x.toFixed(2)).join(' ');
   out.push(`load average before ${loads(rep.loadAverageBefore)}, after ${loads(rep.loadAverageAfter)}`);
   out.push('build' in rep.native ? `native reference: ${rep.native.build}, base variant` : `native reference skipped: ${rep.native.skipped}`);
@@ -261,6 +263,11 @@ async function main(): Promise<void> {
     .option('--grids <names>', 'comma-separated grids: small, medium, large', sizeList, SIZES.map((s) => s.name))
     .option('--measures <names>', `comma-separated kernel measurements: ${MEASURES.join(', ')}`, measureList, [...MEASURES])
     .option('--kernels-only', 'skip the demo solve() and the start-up time')
+    .addOption(
+      new Option('--fields <precision>', 'storage of the field arrays (grid.field_precision); run float32 in a process of its own, as npm run bench does: one process timing both would make every kernel serve two array types')
+        .choices(['float64', 'float32'])
+        .default('float64'),
+    )
     .option('--no-native', 'skip the native C reference')
     .option('--native-dir <path>', 'folder holding fdtd2d.c', defaultReferenceDir())
     .parse();
@@ -270,6 +277,7 @@ async function main(): Promise<void> {
     grids: string[];
     measures: Measure[];
     kernelsOnly?: boolean;
+    fields: 'float64' | 'float32';
     native: boolean;
     nativeDir: string;
   }>();
@@ -282,12 +290,13 @@ async function main(): Promise<void> {
   if (typeof built === 'string') log(`native reference skipped: ${built}`);
   try {
     // warm-up: compile every kernel path before anything is timed
-    const warm = buildBenchGrid(200, 100);
+    const fields32 = opts.fields === 'float32';
+    const warm = buildBenchGrid(200, 100, 'per-cell', fields32);
     for (const entry of ['step', 'in-turn'] as const) {
       runKernel(warm, 'plain', WARMUP_STEPS_SMALL_GRID, entry);
       runKernel(warm, 'cpml', WARMUP_STEPS_SMALL_GRID, entry);
     }
-    const sizes = SIZES.filter((s) => opts.grids.includes(s.name)).map((s) => benchSize(s, opts.repeats, opts.measures, ref, log));
+    const sizes = SIZES.filter((s) => opts.grids.includes(s.name)).map((s) => benchSize(s, opts.repeats, opts.measures, ref, log, fields32));
     let demo: BenchReport['demo'];
     let startup: BenchReport['startup'];
     if (!opts.kernelsOnly) {
@@ -303,6 +312,7 @@ async function main(): Promise<void> {
       loadAverageBefore,
       loadAverageAfter: loadavg(),
       pinnedToCore0: pinned && (ref?.pinned ?? true),
+      fields: opts.fields,
       native: ref ? { build: ref.build } : { skipped: String(built) },
       repeats: opts.repeats,
       measures: opts.measures,

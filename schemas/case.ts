@@ -84,6 +84,12 @@ export const GridSchema = z
      * dispersion on ground-wave paths; waves at other angles are then slightly fast). `none`: the plain Yee grid.
      */
     dispersion_correction: z.enum(['none', 'along_ground']).default('none'),
+    /**
+     * Storage of the field arrays Ex, Ez, Hy: `float64` (the default) or `float32`, which halves their memory and
+     * the memory traffic of grids larger than the cache; every update is still computed in double precision and
+     * rounded once when stored. Every published-reference check passes with either (`loamwave verify --fields`).
+     */
+    field_precision: z.enum(['float64', 'float32']).default('float64'),
   })
   .refine((g) => !(g.cells_per_wavelength !== undefined && g.cell_size_m !== undefined), {
     message: 'give either cells_per_wavelength or cell_size_m, not both',
@@ -141,7 +147,7 @@ export const CaseSchema = z
       /** Height of the computed region (excluding the absorbing layer), m. */
       height_m: positive('domain height in m'),
     }),
-    grid: GridSchema.default({ courant: 0.9, absorbing_cells: 40, dispersion_correction: 'none' }),
+    grid: GridSchema.default({ courant: 0.9, absorbing_cells: 40, dispersion_correction: 'none', field_precision: 'float64' }),
     receivers: z.strictObject({
       ranges_m: z.array(positive('receiver range in m')).min(1).max(10000),
       height_m: z.number().min(0).finite().default(0),

@@ -12,14 +12,21 @@
 // plain loops (JavaScript never fuses a multiply and an add; test/fdtd-kernel.bit-identity.test.ts holds them to it).
 // A value read for one cell and needed by the next (Ex below, Hy below) is carried in a local.
 
+/**
+ * Storage of the fields: Float64Array, or Float32Array for the case's `grid.field_precision: float32`. The kernel
+ * is the same code for both (JavaScript computes in double precision either way; a store into a Float32Array
+ * rounds once), so the bit-identity of leapfrogStep and the updates in turn holds for each.
+ */
+export type FieldArray = Float64Array | Float32Array;
+
 export interface YeeFields {
   nx: number;
   nz: number;
   /** Row stride, nz + 1. */
   S: number;
-  ex: Float64Array;
-  ez: Float64Array;
-  hy: Float64Array;
+  ex: FieldArray;
+  ez: FieldArray;
+  hy: FieldArray;
   /**
    * Coefficients by column profile: the coefficient of cell (i, k) is at colEx[i] + k (colEz[i] + k for Ez).
    * Columns of the same materials share one profile, so the update reads three field arrays per cell and the

@@ -24,6 +24,7 @@ import { earthRadiusM, type Case } from '../schemas/case.js';
 import { UserError } from '../schemas/errors.js';
 import { C0, EPS0, MU0 } from './constants.js';
 import { groundImpedance } from './surface-impedance.js';
+import type { FieldArray } from './fdtd-kernel.js';
 
 /** Exponential ionosphere: σ(z) = ε0·2.5e5·exp(β(z − h′)) S/m, z and h′ in km (Wait & Spies, NBS Tech. Note 300, 1964). */
 export function ionosphereConductivity(heightM: number, hPrimeKm: number, betaPerKm: number): number {
@@ -164,7 +165,8 @@ export function planGrid(c: Case): GridPlan {
   const cells = (nx + 1) * (nz + 1);
   const pmlCells = 2 * (npml * (nz + 1) + pmlTop * (nx + 1));
   const profiles = groundRows > 0 ? Math.max(1, (c.ground.segments ?? []).length) : 1;
-  const memoryBytes = 8 * (FIELD_ARRAYS * cells + pmlCells + 4 * profiles * (nz + 1)) + 8 * 6 * (nx + nz);
+  const fieldBytes = c.grid.field_precision === 'float32' ? 4 : 8;
+  const memoryBytes = fieldBytes * FIELD_ARRAYS * cells + 8 * (pmlCells + 4 * profiles * (nz + 1)) + 8 * 6 * (nx + nz);
   return {
     dxM,
     dtS,
@@ -349,3 +351,8 @@ export function metricUnscale(g: GridPlan, heightM: number): number {
 }
 
 export { MU0 };
+
+/** A zeroed field array (Ex, Ez or Hy) of the case's `grid.field_precision`. */
+export function fieldArray(c: Case, size: number): FieldArray {
+  return c.grid.field_precision === 'float32' ? new Float32Array(size) : new Float64Array(size);
+}

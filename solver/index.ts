@@ -6,7 +6,7 @@ import { C0, MU0 } from './constants.js';
 import { buildCpmlState } from './cpml.js';
 import { SolveCancelledError, SolverDivergedError } from './errors.js';
 import { leapfrogStep, yeeFields, type CpmlState, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
-import { buildMaterials, magneticCoefficients, metricUnscale, planGrid, radialFactors, sourceCellAreaM2, type GridPlan } from './grid.js';
+import { buildMaterials, fieldArray, magneticCoefficients, metricUnscale, planGrid, radialFactors, sourceCellAreaM2, type GridPlan } from './grid.js';
 import { buildReceiverTaps, ReceiverBank } from './receivers.js';
 import { sourceCurrent, targetMoment } from './source.js';
 import { buildImpedanceRow, groundImpedance } from './surface-impedance.js';
@@ -85,9 +85,9 @@ export function buildYeeGrid(c: Case, g: GridPlan = planGrid(c)): YeeGrid {
     nx,
     nz,
     S,
-    ex: new Float64Array(size),
-    ez: new Float64Array(size),
-    hy: new Float64Array(size),
+    ex: fieldArray(c, size),
+    ez: fieldArray(c, size),
+    hy: fieldArray(c, size),
     ...mat,
     ...magneticCoefficients(g),
     rp,

@@ -7,7 +7,7 @@ import { unwrapNearRad } from './phase.js';
 import { abs, arg, div, fromPolar, mul, sub, type C } from './references/complex.js';
 import { buildCpmlState } from './cpml.js';
 import { applySurfaceImpedance, updateE, updateECpml, updateH, updateHCpml, yeeFields, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
-import { buildMaterials, magneticCoefficients, planGrid } from './grid.js';
+import { buildMaterials, fieldArray, magneticCoefficients, planGrid } from './grid.js';
 import { RunningDft, type Tap } from './receivers.js';
 import { sourceCurrent } from './source.js';
 import { buildImpedanceRow, groundImpedance } from './surface-impedance.js';
@@ -64,9 +64,9 @@ export function runNormalIncidence(c: Case): NormalIncidenceResult {
     nx: 1,
     nz,
     S,
-    ex: new Float64Array(2 * S),
-    ez: new Float64Array(2 * S),
-    hy: new Float64Array(2 * S),
+    ex: fieldArray(c, 2 * S),
+    ez: fieldArray(c, 2 * S),
+    hy: fieldArray(c, 2 * S),
     caEx: col(mat.caEx, mat.colEx[0]),
     cbEx: col(mat.cbEx, mat.colEx[0]),
     caEz: col(mat.caEz, mat.colEz[0]),

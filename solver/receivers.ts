@@ -5,6 +5,7 @@
 // 1 − cos(kΔx/2) of its amplitude midway between columns (0.17 dB at 16 cells per wavelength), an error that
 // changes sign with the receiver's place in the cell and makes grid convergence look oscillatory.
 import { metricUnscale, type GridPlan } from './grid.js';
+import type { FieldArray } from './fdtd-kernel.js';
 
 export type FieldName = 'ex' | 'ez' | 'hy';
 
@@ -94,7 +95,7 @@ export function buildReceiverTaps(g: GridPlan, rangesM: readonly number[], heigh
 type Phasors = { re: Float64Array; im: Float64Array };
 
 /** The field arrays the samples are read from, by name. */
-export type FieldArrays = Record<FieldName, Float64Array>;
+export type FieldArrays = Record<FieldName, FieldArray>;
 
 const FIELDS: readonly FieldName[] = ['ex', 'ez', 'hy'];
 /** Keys of samples: group · INDEX_SPAN + cell index. */
@@ -195,7 +196,7 @@ export class SampleDft {
     this.count++;
   }
 
-  private accumulateGroup(field: Float64Array, start: number, end: number, c: number, s: number): void {
+  private accumulateGroup(field: FieldArray, start: number, end: number, c: number, s: number): void {
     const { index, accRe, accIm } = this;
     for (let u = start; u < end; u++) {
       const v = field[index[u]];

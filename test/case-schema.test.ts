@@ -29,6 +29,16 @@ describe('case schema', () => {
     expect(c.grid.courant).toBe(0.9);
     expect(c.ground.impedance_sampling).toBe('extrapolated');
     expect(c.receivers.height_m).toBe(0);
+    expect(c.grid.field_precision).toBe('float64');
+    expect(parseCase({ ...base, grid: { cells_per_wavelength: 20 } }).grid.field_precision).toBe('float64');
+  });
+
+  it('when grid.field_precision is not float64 or float32 then the error names the field and the choices', () => {
+    const msg = errorOf({ ...base, grid: { field_precision: 'half' } });
+    expect(msg).toContain('grid.field_precision');
+    expect(msg).toMatch(/float64/);
+    expect(msg).toMatch(/float32/);
+    expect(msg.split('\n')).toHaveLength(1);
   });
 
   it('when the earth block is left out then it stays out of the parsed case (job ids unchanged), and a flat geometry accepts it', () => {

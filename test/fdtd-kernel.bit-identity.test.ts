@@ -16,6 +16,7 @@ import {
   updateHCpml,
   type CpmlState,
   type ImpedanceRow,
+  type FieldArray,
   type YeeFields,
 } from '../solver/fdtd-kernel.js';
 import { buildMaterials, planGrid } from '../solver/grid.js';
@@ -197,9 +198,9 @@ const PSI = ['psiHx', 'psiEz', 'psiHz', 'psiEx'] as const;
 
 /** First element where two grids differ in bits (Object.is also tells −0 from +0), or undefined. */
 function firstDifference(a: Grid, b: Grid): string | undefined {
-  const pairs: Array<[string, Float64Array, Float64Array]> = [
-    ...ARRAYS.map((n): [string, Float64Array, Float64Array] => [n, a.f[n], b.f[n]]),
-    ...PSI.map((n): [string, Float64Array, Float64Array] => [n, a.p[n], b.p[n]]),
+  const pairs: Array<[string, FieldArray, FieldArray]> = [
+    ...ARRAYS.map((n): [string, FieldArray, FieldArray] => [n, a.f[n], b.f[n]]),
+    ...PSI.map((n): [string, FieldArray, FieldArray] => [n, a.p[n], b.p[n]]),
     ['hsPrev', a.z.hsPrev, b.z.hsPrev],
   ];
   for (const [name, x, y] of pairs) {

@@ -3,6 +3,7 @@
 import { describe, expect, it } from 'vitest';
 import { parseCase, type CaseInput } from '../schemas/case.js';
 import { UserError } from '../schemas/errors.js';
+import { planGrid } from '../solver/grid.js';
 import { estimateCost, solve } from '../solver/index.js';
 
 const mixedPathUnderIonosphere: CaseInput = {
@@ -63,6 +64,32 @@ describe('solver behaviour', () => {
     const refused = () => solve(parseCase({ ...base, ground: { model: 'impedance', segments: [{ start_m: 0, conductivity_s_per_m: 2e-5, relative_permittivity: 10 }] } }));
     expect(refused).toThrow(UserError);
     expect(refused).toThrow(/"model": "resolved"/);
+  });
+
+  it('when the fields are stored in float32 then the estimate counts 4 bytes a field value, and the field moves by float32 round-off only', () => {
+    const input = {
+      frequency_hz: 20_000,
+      ground: { model: 'impedance', segments: [{ start_m: 0, conductivity_s_per_m: 0.003, relative_permittivity: 15 }] },
+      domain: { range_m: 30_000, height_m: 15_000 },
+      grid: { cells_per_wavelength: 10 },
+      receivers: { ranges_m: [20_000] },
+    } as const;
+    const c64 = parseCase(input);
+    const c32 = parseCase({ ...input, grid: { ...input.grid, field_precision: 'float32' } });
+    const e64 = estimateCost(c64);
+    const e32 = estimateCost(c32);
+    const s64 = solve(c64);
+    const s32 = solve(c32);
+    // Ex, Ez and Hy: three arrays of (nx + 1)·(nz + 1) values (a node more than the cells each way), 8 bytes each
+    // in float64 and 4 in float32
+    const g = planGrid(c64);
+    const nodes = (g.nx + 1) * (g.nz + 1);
+    expect(e64.memory_bytes - e32.memory_bytes).toBe(3 * 4 * nodes);
+    const r64 = s64.receivers[0];
+    const r32 = s32.receivers[0];
+    expect(r32.ez_db_uv_per_m).not.toBe(r64.ez_db_uv_per_m); // the option does act
+    // float32 keeps 24 bits (6e-8 relative) per stored value; the phasor moves by a small multiple of that
+    expect(Math.abs(r32.ez_db_uv_per_m - r64.ez_db_uv_per_m)).toBeLessThan(1e-4);
   });
 
   it('when a case is solved then the result reports the grid actually used and estimateCost predicts it', () => {

@@ -1,6 +1,7 @@
-// `loamwave verify [--json]`: run the published-reference checks on small cases and print a table;
+// `loamwave verify [--json] [--fields float32]`: run the published-reference checks on small cases and print a table;
 // exit code 1 when any check fails.
-import type { Command } from 'commander';
+import { Option, type Command } from 'commander';
+import type { FieldPrecision } from '../../solver/verify/check-case.js';
 import type { CheckOutcome } from '../../solver/verify/index.js';
 import { ExitCode } from '../../schemas/exit-codes.js';
 
@@ -10,14 +11,16 @@ export function registerVerify(program: Command): void {
     .description('run the solver against published references (small cases) and print check, source, expected, got, tolerance, pass')
     .option('--json', 'print the outcomes as JSON')
     .option('--only <ids>', 'comma-separated check ids to run')
-    .action(async (opts: { json?: boolean; only?: string }) => {
+    .addOption(new Option('--fields <precision>', 'storage of the field arrays in every check case (grid.field_precision)').choices(['float64', 'float32']).default('float64'))
+    .action(async (opts: { json?: boolean; only?: string; fields: FieldPrecision }) => {
       const { referenceChecks } = await import('../../solver/verify/index.js');
+      const { withFieldPrecision } = await import('../../solver/verify/check-case.js');
       const wanted = opts.only?.split(',').map((s) => s.trim());
       const outcomes: CheckOutcome[] = [];
       for (const check of referenceChecks()) {
         if (wanted && !wanted.includes(check.id)) continue;
         if (!opts.json) process.stderr.write(`verify: ${check.id}…\n`);
-        outcomes.push(...check.run());
+        outcomes.push(...withFieldPrecision(opts.fields, () => check.run()));
       }
       const failed = outcomes.filter((o) => !o.pass).length;
       if (opts.json) {

@@ -1,10 +1,11 @@
 // The one-column planar case the plane-wave checks run (normal incidence on a homogeneous ground, open top).
-import { parseCase, type Case } from '../../schemas/case.js';
+import type { Case } from '../../schemas/case.js';
+import { checkCase } from './check-case.js';
 import { C0 } from '../constants.js';
 
 /** A planar case three wavelengths high over one homogeneous ground segment; only its column is run. */
 export function columnCase(frequencyHz: number, sigma: number, epsR: number, model: 'impedance' | 'resolved', cpw: number): Case {
-  return parseCase({
+  return checkCase({
     geometry: 'planar',
     frequency_hz: frequencyHz,
     ground: { model, segments: [{ start_m: 0, conductivity_s_per_m: sigma, relative_permittivity: epsR }] },

@@ -1,6 +1,6 @@
 // Numerical dispersion: the phase velocity the grid gives a wave, measured on the 1-D column and on the 2-D
 // planar grid, against the Yee dispersion relation.
-import { parseCase } from '../../schemas/case.js';
+import { checkCase } from './check-case.js';
 import { C0 } from '../constants.js';
 import { solve } from '../index.js';
 import { newtonRoot } from '../newton.js';
@@ -63,7 +63,7 @@ export const dispersion2dCheck: ReferenceCheck = {
       for (const angle of [0, Math.PI / 4]) {
         const h = (r: number) => {
           const res = solve(
-            parseCase({
+            checkCase({
               geometry: 'planar',
               frequency_hz: f,
               ground: { model: 'pec' },

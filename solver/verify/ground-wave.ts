@@ -1,6 +1,7 @@
 // The ground wave over a homogeneous lossy ground: the field ratio to a perfect ground against the
 // Sommerfeld–Norton attenuation function, and the impedance ground model against the resolved ground.
-import { parseCase, type CaseInput } from '../../schemas/case.js';
+import type { CaseInput } from '../../schemas/case.js';
+import { checkCase } from './check-case.js';
 import { solve } from '../index.js';
 import * as Cx from '../references/complex.js';
 import { nortonDelta, nortonFieldRatio, numericalDistance } from '../references/norton.js';
@@ -78,8 +79,8 @@ export const nortonCheck = (geometry: 'axisymmetric' | 'planar', nc: NortonCase,
       grid: { cells_per_wavelength: 20 },
       receivers: { ranges_m: ranges },
     };
-    const over = solve(parseCase(base));
-    const pec = solve(parseCase({ ...base, ground: { model: 'pec' } }));
+    const over = solve(checkCase(base));
+    const pec = solve(checkCase({ ...base, ground: { model: 'pec' } }));
     const out: CheckOutcome[] = [];
     ranges.forEach((d, i) => {
       const w = numericalDistance(f, d, nortonDelta(f, sigma, eps, 'surface-impedance'));
@@ -120,8 +121,8 @@ export const impedanceVsResolvedCheck: ReferenceCheck = {
       grid: { cells_per_wavelength: 20 },
       receivers: { ranges_m: [5000, 10000, 20000, 30000] },
     };
-    const imp = solve(parseCase(base));
-    const res = solve(parseCase({ ...base, ground: { ...base.ground, model: 'resolved' } }));
+    const imp = solve(checkCase(base));
+    const res = solve(checkCase({ ...base, ground: { ...base.ground, model: 'resolved' } }));
     return imp.receivers.map((x, i) =>
       outcome(
         `|Ez| impedance vs resolved ground, 100 kHz, 1e-3 S/m εr 15 (loss tangent 12), ${x.range_m / 1e3} km (dB)`,

@@ -1,7 +1,8 @@
 // A ground wave across a coastline on the sphere: the spherical FDTD over a land–sea path against Millington's
 // mixed-path method on the spherical-earth residue-series curves, in field strength and in phase, at ranges where
 // the earth's curvature takes several dB off the flat-earth field.
-import { MEAN_EARTH_RADIUS_M, parseCase, type CaseInput } from '../../schemas/case.js';
+import { MEAN_EARTH_RADIUS_M, type CaseInput } from '../../schemas/case.js';
+import { checkCase } from './check-case.js';
 import { unwrapNearDeg } from '../phase.js';
 import { solve } from '../index.js';
 import * as Cx from '../references/complex.js';
@@ -79,9 +80,9 @@ export const mixedPathSphereCheck: ReferenceCheck = {
       grid: { cells_per_wavelength: 10 },
       receivers: { ranges_m: ranges },
     };
-    const sphere = solve(parseCase(base));
+    const sphere = solve(checkCase(base));
     // the flat geometries ignore the `earth` block
-    const flatPec = solve(parseCase({ ...base, geometry: 'axisymmetric', ground: { model: 'pec' } }));
+    const flatPec = solve(checkCase({ ...base, geometry: 'axisymmetric', ground: { model: 'pec' } }));
     const curve = (g: Ground, d: number) =>
       sphericalEarthFieldRatio(f, g.sigma, g.epsR, radiusM, d, { deltaForm: 'surface-impedance' });
     const segments = [

@@ -1,5 +1,6 @@
 // A ground wave across a coastline: the solver over a land–sea path against Millington's mixed-path method.
-import { parseCase, type CaseInput } from '../../schemas/case.js';
+import type { CaseInput } from '../../schemas/case.js';
+import { checkCase } from './check-case.js';
 import { solve } from '../index.js';
 import * as Cx from '../references/complex.js';
 import { millington, pathToRange } from '../references/millington.js';
@@ -41,8 +42,8 @@ export const mixedPathCheck: ReferenceCheck = {
       grid: { cells_per_wavelength: 20 },
       receivers: { ranges_m: ranges },
     };
-    const over = solve(parseCase(base));
-    const pec = solve(parseCase({ ...base, ground: { model: 'pec' } }));
+    const over = solve(checkCase(base));
+    const pec = solve(checkCase({ ...base, ground: { model: 'pec' } }));
     const curve = (g: [number, number], d: number) => db(Cx.abs(nortonFieldRatio(f, g[0], g[1], d, { deltaForm: 'surface-impedance' })));
     const segments = [
       { startM: 0, ground: land },

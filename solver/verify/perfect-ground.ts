@@ -1,6 +1,6 @@
 // The axisymmetric solver over a perfect ground against the exact field of a short vertical dipole: the field
 // strength (which fixes the source's power scaling) and the phase (which shows the grid's dispersion).
-import { parseCase } from '../../schemas/case.js';
+import { checkCase } from './check-case.js';
 import { C0 } from '../constants.js';
 import { solve } from '../index.js';
 import { unwrapNearRad } from '../phase.js';
@@ -31,7 +31,7 @@ export const PEC_PHASE_TOLERANCE_DEG: Tolerance = {
 export const perfectGroundCheck: ReferenceCheck = {
   id: 'pec-ground-axisymmetric',
   run: () => {
-    const c = parseCase({
+    const c = checkCase({
       frequency_hz: 20000,
       source: { power_w: 1000 },
       ground: { model: 'pec' },
@@ -65,7 +65,7 @@ export const phaseCheck: ReferenceCheck = {
     const out: CheckOutcome[] = [];
     for (const correction of ['none', 'along_ground'] as const) {
       const r = solve(
-        parseCase({
+        checkCase({
           frequency_hz: 20000,
           ground: { model: 'pec' },
           domain: { range_m: 100000, height_m: 50000 },

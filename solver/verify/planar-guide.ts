@@ -1,6 +1,6 @@
 // The planar grid under a perfect ceiling: the quasi-TEM mode over an impedance floor, its attenuation and phase
 // constants fitted along the guide, against the exact modal root and the one-lossy-wall perturbation.
-import { parseCase } from '../../schemas/case.js';
+import { checkCase } from './check-case.js';
 import { fitGuideConstants } from '../guide-fit.js';
 import { solve } from '../index.js';
 import { surfaceResistanceOhm } from '../references/fresnel.js';
@@ -50,7 +50,7 @@ export const guideCheck: ReferenceCheck = {
       [4, 80],
     ] as const) {
       const r = solve(
-        parseCase({
+        checkCase({
           geometry: 'planar',
           frequency_hz: f,
           ground: { model: 'impedance', segments: [{ start_m: 0, conductivity_s_per_m: sigma, relative_permittivity: eps }] },

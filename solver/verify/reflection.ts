@@ -1,6 +1,6 @@
 // Reflection of the ground models and of the absorbing layers: the Fresnel coefficient at normal incidence, and
 // how little the CPML sends back, at the top (plane wave) and at the far side of the axisymmetric grid.
-import { parseCase } from '../../schemas/case.js';
+import { checkCase } from './check-case.js';
 import { C0 } from '../constants.js';
 import { solve } from '../index.js';
 import { runNormalIncidence } from '../normal-incidence.js';
@@ -102,7 +102,7 @@ export const farSideAbsorbingLayerCheck: ReferenceCheck = {
     const receivers = FAR_SIDE_OFFSETS_WAVELENGTHS.map((o) => rangeM - o * lambdaM);
     const run = (domainRangeM: number) =>
       solve(
-        parseCase({
+        checkCase({
           geometry: 'axisymmetric',
           frequency_hz: f,
           ground: { model: 'pec' },

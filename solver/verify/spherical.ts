@@ -1,6 +1,7 @@
 // The spherical-earth geometry: a huge sphere against the flat axisymmetric grid (the limit a → ∞), and the real
 // earth against the residue series of the spherical-earth ground wave. Small cases (a few seconds together).
-import { MEAN_EARTH_RADIUS_M, parseCase, type CaseInput } from '../../schemas/case.js';
+import { MEAN_EARTH_RADIUS_M, type CaseInput } from '../../schemas/case.js';
+import { checkCase } from './check-case.js';
 import { C0 } from '../constants.js';
 import { solve } from '../index.js';
 import { unwrapNearDeg } from '../phase.js';
@@ -36,8 +37,8 @@ export const FLAT_LIMIT_TOLERANCE_DEG: Tolerance = {
 export const sphericalFlatLimitCheck: ReferenceCheck = {
   id: 'spherical-flat-limit',
   run: () => {
-    const flat = solve(parseCase(FLAT_LIMIT_CASE));
-    const sphere = solve(parseCase({ ...FLAT_LIMIT_CASE, geometry: 'spherical', earth: { radius_m: FLAT_LIMIT_RADIUS_M } }));
+    const flat = solve(checkCase(FLAT_LIMIT_CASE));
+    const sphere = solve(checkCase({ ...FLAT_LIMIT_CASE, geometry: 'spherical', earth: { radius_m: FLAT_LIMIT_RADIUS_M } }));
     const source = 'the flat axisymmetric solver on the same case (the limit a → ∞ of Maxwell\'s equations in spherical coordinates)';
     const out: CheckOutcome[] = [];
     flat.receivers.forEach((f, i) => {
@@ -74,7 +75,7 @@ export const sphericalSeriesCheck: ReferenceCheck = {
   id: 'spherical-residue-series',
   run: () => {
     const r = solve(
-      parseCase({
+      checkCase({
         geometry: 'spherical',
         frequency_hz: SERIES_FREQUENCY_HZ,
         ground: { model: 'impedance', segments: [{ start_m: 0, ...SERIES_GROUND }] },
