@@ -5,7 +5,8 @@ import type { ReceiverResult, SolveResult } from '../schemas/result.js';
 import { C0, MU0 } from './constants.js';
 import { buildCpmlState } from './cpml.js';
 import { SolveCancelledError, SolverDivergedError } from './errors.js';
-import { leapfrogStep, yeeFields, type CpmlState, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
+import { yeeFields, type CpmlState, type ImpedanceRow, type YeeFields } from './fdtd-kernel.js';
+import { kernelFor } from './kernel-instances.js';
 import { buildMaterials, fieldArray, magneticCoefficients, metricUnscale, planGrid, radialFactors, sourceCellAreaM2, type GridPlan } from './grid.js';
 import { buildReceiverTaps, ReceiverBank } from './receivers.js';
 import { sourceCurrent, targetMoment } from './source.js';
@@ -151,6 +152,8 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
 
   const receivers = buildReceiverTaps(g, c.receivers.ranges_m, c.receivers.height_m, zrow !== undefined);
   const fieldsByName = { ex: f.ex, ez: f.ez, hy: f.hy };
+  // float32 fields step on a kernel instance of their own (kernel-instances.ts)
+  const step = kernelFor(c.grid.field_precision).leapfrogStep;
 
   const expectedSteps = sch.settleSteps + 2 * sch.windowSteps;
   // give up on settling after 200 windows (a field still changing then is reported, not hidden)
@@ -171,7 +174,7 @@ export function solve(c: Case, opts: SolveOptions = {}): SolveResult {
   for (;;) {
     const windowEnd = n >= sch.settleSteps && (n - sch.settleSteps) % sch.windowSteps === sch.windowSteps - 1;
     // one leapfrog step: E^n → H^{n+½} (with the ground row's E^n), H^{n+½} → E^{n+1}, in one sweep over the columns
-    leapfrogStep(f, pml, zrow);
+    step(f, pml, zrow);
     f.ez[ks] += sourceCoef * sourceCurrent((n + 0.5) * g.dtS, omega, rampS);
     if (n >= sch.settleSteps) dft.accumulate(n, fieldsByName);
     if (windowEnd) {
