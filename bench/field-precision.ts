@@ -7,6 +7,8 @@ import { referenceChecks, type CheckOutcome } from '../solver/verify/index.js';
 import { withFieldPrecision } from '../solver/verify/check-case.js';
 
 interface Row {
+  /** The reference check (`loamwave verify --only` id) the outcome belongs to. */
+  id: string;
   check: string;
   expected: number;
   got64: number;
@@ -39,7 +41,7 @@ function main(): void {
     a.forEach((o, q) => {
       const p = b[q];
       if (!p || p.check !== o.check) throw new Error(`field-precision: ${check.id} gave different outcomes in float32`);
-      rows.push({ check: o.check, expected: o.expectedValue, got64: o.gotValue, got32: p.gotValue, moved: p.gotValue - o.gotValue, tolerance: o.toleranceValue, pass64: o.pass, pass32: p.pass });
+      rows.push({ id: check.id, check: o.check, expected: o.expectedValue, got64: o.gotValue, got32: p.gotValue, moved: p.gotValue - o.gotValue, tolerance: o.toleranceValue, pass64: o.pass, pass32: p.pass });
     });
   }
   if (opts.json) {
@@ -60,6 +62,19 @@ function main(): void {
     );
   }
   const worst = rows.filter((r) => !isBound(r)).reduce((m, r) => Math.max(m, Math.abs(r.moved) / r.tolerance), 0);
+  process.stdout.write('\nby check (largest |moved| in the unit of its outcome; bounds: the smallest margin left in float32):\n');
+  for (const id of [...new Set(rows.map((r) => r.id))]) {
+    const mine = rows.filter((r) => r.id === id);
+    const judged = mine.filter((r) => !isBound(r));
+    const bounds = mine.filter(isBound);
+    const parts = [`${mine.length} outcome${mine.length === 1 ? '' : 's'}, ${mine.filter((r) => r.pass32).length} pass in float32`];
+    if (judged.length) {
+      const big = judged.reduce((a, r) => (Math.abs(r.moved) > Math.abs(a.moved) ? r : a));
+      parts.push(`largest |moved| ${Math.abs(big.moved).toExponential(1)} (${(Math.abs(big.moved) / big.tolerance).toExponential(1)} of its tolerance ${g(big.tolerance)})`);
+    }
+    if (bounds.length) parts.push(`bound margin ${g(Math.min(...bounds.map((r) => r.expected - r.got32)))} (float64 ${g(Math.min(...bounds.map((r) => r.expected - r.got64)))})`);
+    process.stdout.write(`  ${id}: ${parts.join('; ')}\n`);
+  }
   process.stdout.write(
     `\n${rows.filter((r) => r.pass32).length} of ${rows.length} pass with float32 (${rows.filter((r) => r.pass64).length} with float64); ` +
       `largest |moved| / tolerance ${worst.toExponential(1)} (bounds left out); run time float64 ${seconds.float64.toFixed(1)} s, float32 ${seconds.float32.toFixed(1)} s\n`,
