@@ -40,7 +40,7 @@ describe('stable job ids', () => {
       source: { power_w: 1000, height_m: 0 },
       ground: { model: 'impedance', impedance_sampling: 'extrapolated', resolved_depth_skin_depths: 4, segments: [{ start_m: 0, conductivity_s_per_m: 0.003, relative_permittivity: 15 }] },
       upper_boundary: { kind: 'open' },
-      grid: { cells_per_wavelength: 10, courant: 0.9, absorbing_cells: 40, dispersion_correction: 'none' },
+      grid: { cells_per_wavelength: 10, courant: 0.9, absorbing_cells: 40, dispersion_correction: 'none', field_precision: 'float64' },
       receivers: { ranges_m: [10000], height_m: 0 },
       run: { ramp_periods: 3, dft_periods: 2, max_steps: 2_000_000 },
     };
@@ -59,6 +59,7 @@ describe('stable job ids', () => {
       { upper_boundary: { kind: 'pec', height_m: 20000 } },
       { ground: { segments: [{ start_m: 0, conductivity_s_per_m: 0.003, relative_permittivity: 14 }] } },
       { geometry: 'spherical' },
+      { grid: { cells_per_wavelength: 10, field_precision: 'float32' } },
     ]) {
       expect(jobIdFor(parseCase({ ...minimal, ...change })), JSON.stringify(change)).not.toBe(base);
     }
