@@ -506,7 +506,8 @@ interface FreeSpacePlan {
   readonly graded: boolean;
   /**
    * 1 where the column's rows in the top layer are all lossless with the constants (ca = 1, cbEx0, chz0; Ez's cb
-   * is read from the arrays there, graded or not): topLayerPairLossless then reads no ca and no Ex cb.
+   * read from the arrays there): topLayerPairLossless then reads no ca and no Ex cb; 2 where Ez's cb is cbEz0 on
+   * those rows too (a flat grid's open top): topLayerPairFree then reads no coefficient array at all; 0 otherwise.
    */
   readonly topFree: Uint8Array;
   readonly lo: Int32Array;
@@ -573,11 +574,12 @@ function freeSpacePlan(f: YeeFields, kTop: number): FreeSpacePlan {
     lo[i] = runLo;
     hi[i] = runLo + best;
     for (let k = runLo; k < runLo + best; k++) if (!Object.is(cbEz[colEz[i] + k], cbEz0)) graded = true;
-    let top = 1;
+    let top = 2;
     for (let k = kTop; k < nz; k++) {
       const lossless =
         Object.is(caEx[colEx[i] + k], 1) && Object.is(cbEx[colEx[i] + k], cbEx0) && Object.is(caEz[colEz[i] + k], 1) && Object.is(chz[k], chz0);
       if (!lossless) top = 0;
+      else if (top === 2 && !Object.is(cbEz[colEz[i] + k], cbEz0)) top = 1;
     }
     topFree[i] = top;
   }
@@ -1163,12 +1165,13 @@ function topLayerPair(f: YeeFields, p: CpmlState, i: number): void {
 
 /**
  * topLayerPair where both columns' rows in the layer are lossless with the constants (FreeSpacePlan.topFree):
- * ca = 1, Ex's cb free[0], chz free[2]; Ez's cb from the arrays (1·x = x exactly: the same numbers).
+ * ca = 1, Ex's cb free[0], chz free[2]; Ez's cb from the arrays (1·x = x exactly: the same numbers); the CPML
+ * coefficients from one row of `tc` (topCoefficients).
  */
-function topLayerPairLossless(f: YeeFields, p: CpmlState, i: number, free: Float64Array): void {
+function topLayerPairLossless(f: YeeFields, p: CpmlState, i: number, free: Float64Array, tc: Float64Array): void {
   const { nz, S, ex, ez, hy, chx, cbEz } = f;
   const cb = free[0], c = free[2];
-  const { kz0, pz, bHz, aHz, bEx, aEx, psiHz, psiEx } = p;
+  const { kz0, pz, psiHz, psiEx } = p;
   const a = i * S;
   const oza = (f.colEz[i] - a) | 0;
   const ozb = (f.colEz[i + 1] - a - S) | 0;
@@ -1180,8 +1183,8 @@ function topLayerPairLossless(f: YeeFields, p: CpmlState, i: number, free: Float
   for (let k = kz0; k < nz; k++) {
     const ik = (a + k) | 0;
     const jk = (ik + S) | 0;
-    const j = (k - kz0) | 0;
-    const bh = bHz[j], ah = aHz[j], be = bEx[j], ae = aEx[j];
+    const j4 = ((k - kz0) << 2) | 0;
+    const bh = tc[j4], ah = tc[(j4 + 1) | 0], be = tc[(j4 + 2) | 0], ae = tc[(j4 + 3) | 0];
     const xa1 = ex[(ik + 1) | 0], xb1 = ex[(jk + 1) | 0];
     const za = ez[ik], zb = ez[jk], zc = ez[(jk + S) | 0];
     const dxa = xa1 - xa, dxb = xb1 - xb;
@@ -1210,6 +1213,137 @@ function topLayerPairLossless(f: YeeFields, p: CpmlState, i: number, free: Float
     const sa = (ik + oza) | 0, sb = (jk + ozb) | 0;
     ez[ik] = za + cbEz[sa] * (pa * h0 - ma * hy[(ik - S) | 0]);
     ez[jk] = zb + cbEz[sb] * (pb * h1 - mb * h0);
+    xa = xa1;
+    xb = xb1;
+    ha = h0;
+    hb = h1;
+  }
+}
+
+/**
+ * The top layer's CPML coefficients of one row next to each other, (bHz, aHz, bEx, aEx) at 4·row: one array read in
+ * the loop instead of four (V8 re-checks each typed array on every pass). Kept per CpmlState; its coefficient
+ * arrays must not be changed in place, as the kernel's other plans assume of theirs.
+ */
+const topCoefficientCache = new WeakMap<CpmlState, { from: Float64Array[]; tc: Float64Array }>();
+
+function topCoefficients(p: CpmlState): Float64Array {
+  const from = [p.bHz, p.aHz, p.bEx, p.aEx];
+  const old = topCoefficientCache.get(p);
+  if (old && old.from.every((a, q) => a === from[q])) return old.tc;
+  const tc = new Float64Array(4 * p.pz);
+  for (let j = 0; j < p.pz; j++) {
+    tc[4 * j] = p.bHz[j];
+    tc[4 * j + 1] = p.aHz[j];
+    tc[4 * j + 2] = p.bEx[j];
+    tc[4 * j + 3] = p.aEx[j];
+  }
+  topCoefficientCache.set(p, { from, tc });
+  return tc;
+}
+
+/**
+ * topLayerPairLossless where Ez's cb is free space's too (FreeSpacePlan.topFree 2, a flat grid's open top): every
+ * coefficient a constant or one row of `tc` (topCoefficients), the same numbers term for term.
+ */
+function topLayerPairFree(f: YeeFields, p: CpmlState, i: number, free: Float64Array, tc: Float64Array): void {
+  const { nz, S, ex, ez, hy, chx } = f;
+  const cb = free[0], cz = free[1], c = free[2];
+  const { kz0, pz, psiHz, psiEx } = p;
+  const a = i * S;
+  const pa = f.rp[i], ma = f.rm[i], pb = f.rp[i + 1], mb = f.rm[i + 1];
+  const ta = (i * pz - kz0) | 0; // ψ index = row + ta (column i), row + ta + pz (column i+1)
+  const tb = (ta + pz) | 0;
+  let xa = ex[a + kz0], xb = ex[a + S + kz0];
+  let ha = hy[a + kz0 - 1], hb = hy[a + S + kz0 - 1];
+  let k = kz0;
+  for (; k + 1 < nz; k += 2) {
+    const ik = (a + k) | 0;
+    const jk = (ik + S) | 0;
+    const j4 = ((k - kz0) << 2) | 0;
+    const bh0 = tc[j4], ah0 = tc[(j4 + 1) | 0], be0 = tc[(j4 + 2) | 0], ae0 = tc[(j4 + 3) | 0];
+    const bh1 = tc[(j4 + 4) | 0], ah1 = tc[(j4 + 5) | 0], be1 = tc[(j4 + 6) | 0], ae1 = tc[(j4 + 7) | 0];
+    const xa1 = ex[(ik + 1) | 0], xb1 = ex[(jk + 1) | 0], xa2 = ex[(ik + 2) | 0], xb2 = ex[(jk + 2) | 0];
+    const za0 = ez[ik], zb0 = ez[jk], zc0 = ez[(jk + S) | 0];
+    const za1 = ez[(ik + 1) | 0], zb1 = ez[(jk + 1) | 0], zc1 = ez[(jk + S + 1) | 0];
+    const dxa0 = xa1 - xa, dxb0 = xb1 - xb, dxa1 = xa2 - xa1, dxb1 = xb2 - xb1;
+    // Hy += chx·ΔEz − chz·ΔEx, then ψ ← bψ + a·ΔEx, Hy −= chz·ψ
+    let ha0 = hy[ik] + (chx * (zb0 - za0) - c * dxa0);
+    let hb0 = hy[jk] + (chx * (zc0 - zb0) - c * dxb0);
+    let ha1 = hy[(ik + 1) | 0] + (chx * (zb1 - za1) - c * dxa1);
+    let hb1 = hy[(jk + 1) | 0] + (chx * (zc1 - zb1) - c * dxb1);
+    const qa = (k + ta) | 0, qb = (k + tb) | 0;
+    const psa0 = bh0 * psiHz[qa] + ah0 * dxa0;
+    const psb0 = bh0 * psiHz[qb] + ah0 * dxb0;
+    const psa1 = bh1 * psiHz[(qa + 1) | 0] + ah1 * dxa1;
+    const psb1 = bh1 * psiHz[(qb + 1) | 0] + ah1 * dxb1;
+    psiHz[qa] = psa0;
+    psiHz[qb] = psb0;
+    psiHz[(qa + 1) | 0] = psa1;
+    psiHz[(qb + 1) | 0] = psb1;
+    ha0 -= c * psa0;
+    hb0 -= c * psb0;
+    ha1 -= c * psa1;
+    hb1 -= c * psb1;
+    hy[ik] = ha0;
+    hy[jk] = hb0;
+    hy[(ik + 1) | 0] = ha1;
+    hy[(jk + 1) | 0] = hb1;
+    // Ex = Ex + cb·ΔHy, then ψ ← bψ + a·ΔHy, Ex += cb·ψ; Ez = Ez + cb·(r₊Hy − r₋Hy(i−1))
+    const dha0 = ha - ha0, dhb0 = hb - hb0, dha1 = ha0 - ha1, dhb1 = hb0 - hb1;
+    const pea0 = be0 * psiEx[qa] + ae0 * dha0;
+    const peb0 = be0 * psiEx[qb] + ae0 * dhb0;
+    const pea1 = be1 * psiEx[(qa + 1) | 0] + ae1 * dha1;
+    const peb1 = be1 * psiEx[(qb + 1) | 0] + ae1 * dhb1;
+    psiEx[qa] = pea0;
+    psiEx[qb] = peb0;
+    psiEx[(qa + 1) | 0] = pea1;
+    psiEx[(qb + 1) | 0] = peb1;
+    ex[ik] = xa + cb * dha0 + cb * pea0;
+    ex[jk] = xb + cb * dhb0 + cb * peb0;
+    ex[(ik + 1) | 0] = xa1 + cb * dha1 + cb * pea1;
+    ex[(jk + 1) | 0] = xb1 + cb * dhb1 + cb * peb1;
+    ez[ik] = za0 + cz * (pa * ha0 - ma * hy[(ik - S) | 0]);
+    ez[jk] = zb0 + cz * (pb * hb0 - mb * ha0);
+    ez[(ik + 1) | 0] = za1 + cz * (pa * ha1 - ma * hy[(ik - S + 1) | 0]);
+    ez[(jk + 1) | 0] = zb1 + cz * (pb * hb1 - mb * ha1);
+    xa = xa2;
+    xb = xb2;
+    ha = ha1;
+    hb = hb1;
+  }
+  for (; k < nz; k++) {
+    const ik = (a + k) | 0;
+    const jk = (ik + S) | 0;
+    const j4 = ((k - kz0) << 2) | 0;
+    const bh = tc[j4], ah = tc[(j4 + 1) | 0], be = tc[(j4 + 2) | 0], ae = tc[(j4 + 3) | 0];
+    const xa1 = ex[(ik + 1) | 0], xb1 = ex[(jk + 1) | 0];
+    const za = ez[ik], zb = ez[jk], zc = ez[(jk + S) | 0];
+    const dxa = xa1 - xa, dxb = xb1 - xb;
+    // Hy += chx·ΔEz − chz·ΔEx, then ψ ← bψ + a·ΔEx, Hy −= chz·ψ
+    let h0 = hy[ik] + (chx * (zb - za) - c * dxa);
+    let h1 = hy[jk] + (chx * (zc - zb) - c * dxb);
+    const qa = (k + ta) | 0, qb = (k + tb) | 0;
+    const psa = bh * psiHz[qa] + ah * dxa;
+    const psb = bh * psiHz[qb] + ah * dxb;
+    psiHz[qa] = psa;
+    psiHz[qb] = psb;
+    h0 -= c * psa;
+    h1 -= c * psb;
+    hy[ik] = h0;
+    hy[jk] = h1;
+    // Ex = Ex + cb·ΔHy, then ψ ← bψ + a·ΔHy, Ex += cb·ψ; Ez = Ez + cb·(r₊Hy − r₋Hy(i−1))
+    const dha = ha - h0, dhb = hb - h1;
+    const ea = xa + cb * dha;
+    const eb = xb + cb * dhb;
+    const pea = be * psiEx[qa] + ae * dha;
+    const peb = be * psiEx[qb] + ae * dhb;
+    psiEx[qa] = pea;
+    psiEx[qb] = peb;
+    ex[ik] = ea + cb * pea;
+    ex[jk] = eb + cb * peb;
+    ez[ik] = za + cz * (pa * h0 - ma * hy[(ik - S) | 0]);
+    ez[jk] = zb + cz * (pb * h1 - mb * h0);
     xa = xa1;
     xb = xb1;
     ha = h0;
@@ -1465,6 +1599,7 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
   }
   const plan = freeSpacePlan(f, kTop);
   const { lo, hi, free, graded, topFree } = plan;
+  const tc = pz > 0 ? topCoefficients(p!) : undefined;
   const head = Math.min(2, nz);
   // the axis column, rows below the top layer, update after update; then its rows in the top layer
   hRows(f, 0, 0, kTop);
@@ -1491,7 +1626,9 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
       pairRowsByRun(f, i, 2, kTop, plan);
     }
     if (pz > 0) {
-      if (topFree[i] & topFree[i + 1]) topLayerPairLossless(f, p!, i, free);
+      const top = Math.min(topFree[i], topFree[i + 1]);
+      if (top === 2) topLayerPairFree(f, p!, i, free, tc!);
+      else if (top === 1) topLayerPairLossless(f, p!, i, free, tc!);
       else topLayerPair(f, p!, i);
     }
   }
