@@ -1413,22 +1413,31 @@ function farLayerColumn(f: YeeFields, p: CpmlState, z: ImpedanceRow | undefined,
 }
 
 /**
- * farLayerColumn for columns i = ix0 + j and i+1 together, row loops split at the top layer so no loop branches:
- * H of both columns (below the top layer, then in it), their ground rows, then Ex (below, in) and Ez of both.
- * Column i+1's Ez reads column i's new Hy, finished above; each cell as the five updates write it.
+ * Columns i = ix0 + j and i + 1 of the far-side layer (ix0 ≥ 1), whole, in one pass up the pair: H of rows 0 and 1
+ * with the layer's ψ term, the ground rows, Ex of row 1 and Ez of rows 0 and 1; then row by row H, Ex and Ez (the
+ * top layer's ψ terms too in its rows). A row's E reads only H of its own row and the row below, final by then,
+ * and a row's H reads only E of its row and the row above, not yet updated; so each cell gets what the five
+ * updates in turn give it, in the same order of operations (Roden & Gedney 2000). Every value is read back from
+ * its array, as the updates in turn read it (float32 fields stay bit-identical too).
  */
-function farLayerPair(f: YeeFields, p: CpmlState, z: ImpedanceRow | undefined, j: number): void {
+function farLayerPair(f: YeeFields, p: CpmlState, z: ImpedanceRow | undefined, j: number, tc: Float64Array): void {
   const { nz, S, ex, ez, hy, chx, chz, caEx, cbEx, caEz, cbEz } = f;
-  const { kz0, pz, psiHx, psiEz, psiHz, psiEx, bHz, aHz, bEx, aEx, bHx, aHx, bEz, aEz } = p;
+  const { kz0, pz, psiHx, psiEz, psiHz, psiEx } = p;
   const i = p.ix0 + j;
   const a = i * S;
   const pa = (j * S - a) | 0; // far-layer ψ index = field index + pa (both columns: the ψ rows have stride S too)
   const ta = (i * pz - kz0) | 0; // top-layer ψ index = row + ta (column i), row + ta + pz (column i+1)
   const tb = (ta + pz) | 0;
-  const bHa = bHx[j], aHa = aHx[j], bHb = bHx[j + 1], aHb = aHx[j + 1];
-  const kTop = pz > 0 ? kz0 : nz;
-  // H: Hy += chx·ΔEz − chz·ΔEx, then ψx ← bψx + a·ΔEz, Hy += chx·ψx, then (top layer) ψz ← bψz + a·ΔEx, Hy −= chz·ψz
-  for (let k = 0; k < nz; k++) {
+  const bHa = p.bHx[j], aHa = p.aHx[j], bHb = p.bHx[j + 1], aHb = p.aHx[j + 1];
+  const bEa = p.bEz[j], aEa = p.aEz[j], bEb = p.bEz[j + 1], aEb = p.aEz[j + 1];
+  const oxa = (f.colEx[i] - a) | 0;
+  const oxb = (f.colEx[i + 1] - a - S) | 0;
+  const oza = (f.colEz[i] - a) | 0;
+  const ozb = (f.colEz[i + 1] - a - S) | 0;
+  const rpa = f.rp[i], rma = f.rm[i], rpb = f.rp[i + 1], rmb = f.rm[i + 1];
+  const kTop = pz > 0 ? kz0 : nz; // ≥ 2: leapfrogStep sweeps only then
+  // H: Hy += chx·ΔEz − chz·ΔEx, then ψx ← bψx + a·ΔEz, Hy += chx·ψx (rows 0 and 1, below any top layer)
+  for (let k = 0; k < 2; k++) {
     const ik = (a + k) | 0;
     const jk = (ik + S) | 0;
     const zb = ez[jk];
@@ -1444,71 +1453,130 @@ function farLayerPair(f: YeeFields, p: CpmlState, z: ImpedanceRow | undefined, j
     const psb = bHb * psiHx[qb] + aHb * dzb;
     psiHx[qa] = psa;
     psiHx[qb] = psb;
-    h0 += chx * psa;
-    h1 += chx * psb;
-    if (k >= kTop) {
-      const r = (k - kz0) | 0;
-      const bz = bHz[r], az = aHz[r];
-      const pza = bz * psiHz[(k + ta) | 0] + az * dxa;
-      const pzb = bz * psiHz[(k + tb) | 0] + az * dxb;
-      psiHz[(k + ta) | 0] = pza;
-      psiHz[(k + tb) | 0] = pzb;
-      h0 -= c * pza;
-      h1 -= c * pzb;
-    }
-    hy[ik] = h0;
-    hy[jk] = h1;
+    hy[ik] = h0 + chx * psa;
+    hy[jk] = h1 + chx * psb;
   }
   if (z) {
     surfaceImpedanceColumn(f, z, i);
     surfaceImpedanceColumn(f, z, i + 1);
   }
-  const oxa = (f.colEx[i] - a) | 0;
-  const oxb = (f.colEx[i + 1] - a - S) | 0;
-  // Ex, rows 1…nz−1: Ex = ca·Ex + cb·ΔHy, then (top layer) ψz ← bψz + a·ΔHy, Ex += cb·ψz
-  for (let k = 1; k < nz; k++) {
+  // Ez of row 0, then Ex and Ez of row 1
+  farLayerEz(a, S, oza, ozb, pa, rpa, rma, rpb, rmb, bEa, aEa, bEb, aEb, psiEz, ez, hy, caEz, cbEz);
+  {
+    const ik = (a + 1) | 0;
+    const jk = (ik + S) | 0;
+    const ua = (ik + oxa) | 0, ub = (jk + oxb) | 0;
+    ex[ik] = caEx[ua] * ex[ik] + cbEx[ua] * (hy[(ik - 1) | 0] - hy[ik]);
+    ex[jk] = caEx[ub] * ex[jk] + cbEx[ub] * (hy[(jk - 1) | 0] - hy[jk]);
+    farLayerEz(ik, S, oza, ozb, pa, rpa, rma, rpb, rmb, bEa, aEa, bEb, aEb, psiEz, ez, hy, caEz, cbEz);
+  }
+  // rows 2 … kTop−1: H, then Ex = ca·Ex + cb·ΔHy, then Ez (farLayerEz)
+  for (let k = 2; k < kTop; k++) {
     const ik = (a + k) | 0;
     const jk = (ik + S) | 0;
+    const zb = ez[jk];
+    const dza = zb - ez[ik];
+    const dzb = ez[(jk + S) | 0] - zb;
+    const xa = ex[ik], xb = ex[jk];
+    const dxa = ex[(ik + 1) | 0] - xa;
+    const dxb = ex[(jk + 1) | 0] - xb;
+    const c = chz[k];
+    const h0 = hy[ik] + (chx * dza - c * dxa);
+    const h1 = hy[jk] + (chx * dzb - c * dxb);
+    const qa = (ik + pa) | 0, qb = (jk + pa) | 0;
+    const psa = bHa * psiHx[qa] + aHa * dza;
+    const psb = bHb * psiHx[qb] + aHb * dzb;
+    psiHx[qa] = psa;
+    psiHx[qb] = psb;
+    hy[ik] = h0 + chx * psa;
+    hy[jk] = h1 + chx * psb;
+    const ua = (ik + oxa) | 0, ub = (jk + oxb) | 0;
+    ex[ik] = caEx[ua] * xa + cbEx[ua] * (hy[(ik - 1) | 0] - hy[ik]);
+    ex[jk] = caEx[ub] * xb + cbEx[ub] * (hy[(jk - 1) | 0] - hy[jk]);
+    farLayerEz(ik, S, oza, ozb, pa, rpa, rma, rpb, rmb, bEa, aEa, bEb, aEb, psiEz, ez, hy, caEz, cbEz);
+  }
+  // rows kTop … nz−1, the corner: H then ψz ← bψz + a·ΔEx, Hy −= chz·ψz; Ex then ψz ← bψz + a·ΔHy, Ex += cb·ψz
+  for (let k = kTop; k < nz; k++) {
+    const ik = (a + k) | 0;
+    const jk = (ik + S) | 0;
+    const r4 = ((k - kz0) << 2) | 0;
+    const bz = tc[r4], az = tc[(r4 + 1) | 0], be = tc[(r4 + 2) | 0], ae = tc[(r4 + 3) | 0];
+    const zb = ez[jk];
+    const dza = zb - ez[ik];
+    const dzb = ez[(jk + S) | 0] - zb;
+    const xa = ex[ik], xb = ex[jk];
+    const dxa = ex[(ik + 1) | 0] - xa;
+    const dxb = ex[(jk + 1) | 0] - xb;
+    const c = chz[k];
+    let h0 = hy[ik] + (chx * dza - c * dxa);
+    let h1 = hy[jk] + (chx * dzb - c * dxb);
+    const qa = (ik + pa) | 0, qb = (jk + pa) | 0;
+    const psa = bHa * psiHx[qa] + aHa * dza;
+    const psb = bHb * psiHx[qb] + aHb * dzb;
+    psiHx[qa] = psa;
+    psiHx[qb] = psb;
+    h0 += chx * psa;
+    h1 += chx * psb;
+    const za = (k + ta) | 0, zz = (k + tb) | 0;
+    const pza = bz * psiHz[za] + az * dxa;
+    const pzb = bz * psiHz[zz] + az * dxb;
+    psiHz[za] = pza;
+    psiHz[zz] = pzb;
+    hy[ik] = h0 - c * pza;
+    hy[jk] = h1 - c * pzb;
     const dha = hy[(ik - 1) | 0] - hy[ik];
     const dhb = hy[(jk - 1) | 0] - hy[jk];
     const ua = (ik + oxa) | 0, ub = (jk + oxb) | 0;
     const cba = cbEx[ua], cbb = cbEx[ub];
-    let ea = caEx[ua] * ex[ik] + cba * dha;
-    let eb = caEx[ub] * ex[jk] + cbb * dhb;
-    if (k >= kTop) {
-      const r = (k - kz0) | 0;
-      const be = bEx[r], ae = aEx[r];
-      const pea = be * psiEx[(k + ta) | 0] + ae * dha;
-      const peb = be * psiEx[(k + tb) | 0] + ae * dhb;
-      psiEx[(k + ta) | 0] = pea;
-      psiEx[(k + tb) | 0] = peb;
-      ea += cba * pea;
-      eb += cbb * peb;
-    }
-    ex[ik] = ea;
-    ex[jk] = eb;
+    const ea = caEx[ua] * xa + cba * dha;
+    const eb = caEx[ub] * xb + cbb * dhb;
+    const pea = be * psiEx[za] + ae * dha;
+    const peb = be * psiEx[zz] + ae * dhb;
+    psiEx[za] = pea;
+    psiEx[zz] = peb;
+    ex[ik] = ea + cba * pea;
+    ex[jk] = eb + cbb * peb;
+    farLayerEz(ik, S, oza, ozb, pa, rpa, rma, rpb, rmb, bEa, aEa, bEb, aEb, psiEz, ez, hy, caEz, cbEz);
   }
-  // Ez, rows 0…nz−1: Ez = ca·Ez + cb·(r₊Hy − r₋Hy(i−1)), then ψx ← bψx + a·(Hy − Hy(i−1)), Ez += cb·ψx
-  const oza = (f.colEz[i] - a) | 0;
-  const ozb = (f.colEz[i + 1] - a - S) | 0;
-  const rpa = f.rp[i], rma = f.rm[i], rpb = f.rp[i + 1], rmb = f.rm[i + 1];
-  const bEa = bEz[j], aEa = aEz[j], bEb = bEz[j + 1], aEb = aEz[j + 1];
-  for (let k = 0; k < nz; k++) {
-    const ik = (a + k) | 0;
-    const jk = (ik + S) | 0;
-    const hm = hy[(ik - S) | 0], h0 = hy[ik], h1 = hy[jk];
-    const sa = (ik + oza) | 0, sb = (jk + ozb) | 0;
-    const cba = cbEz[sa], cbb = cbEz[sb];
-    const ea = caEz[sa] * ez[ik] + cba * (rpa * h0 - rma * hm);
-    const eb = caEz[sb] * ez[jk] + cbb * (rpb * h1 - rmb * h0);
-    const qa = (ik + pa) | 0, qb = (jk + pa) | 0;
-    const psa = bEa * psiEz[qa] + aEa * (h0 - hm);
-    const psb = bEb * psiEz[qb] + aEb * (h1 - h0);
-    psiEz[qa] = psa;
-    psiEz[qb] = psb;
-    ez[ik] = ea + cba * psa;
-    ez[jk] = eb + cbb * psb;
-  }
+}
+
+/**
+ * Ez of one row of a far-layer pair at field index ik (column i) and ik + S: Ez = ca·Ez + cb·(r₊Hy − r₋Hy(i−1)),
+ * then ψx ← bψx + a·(Hy − Hy(i−1)), Ez += cb·ψx. Small enough for the compiler to inline into farLayerPair.
+ */
+function farLayerEz(
+  ik: number,
+  S: number,
+  oza: number,
+  ozb: number,
+  pa: number,
+  rpa: number,
+  rma: number,
+  rpb: number,
+  rmb: number,
+  bEa: number,
+  aEa: number,
+  bEb: number,
+  aEb: number,
+  psiEz: Float64Array,
+  ez: FieldArray,
+  hy: FieldArray,
+  caEz: Float64Array,
+  cbEz: Float64Array,
+): void {
+  const jk = (ik + S) | 0;
+  const hm = hy[(ik - S) | 0], h0 = hy[ik], h1 = hy[jk];
+  const sa = (ik + oza) | 0, sb = (jk + ozb) | 0;
+  const cba = cbEz[sa], cbb = cbEz[sb];
+  const ea = caEz[sa] * ez[ik] + cba * (rpa * h0 - rma * hm);
+  const eb = caEz[sb] * ez[jk] + cbb * (rpb * h1 - rmb * h0);
+  const qa = (ik + pa) | 0, qb = (jk + pa) | 0;
+  const psa = bEa * psiEz[qa] + aEa * (h0 - hm);
+  const psb = bEb * psiEz[qb] + aEb * (h1 - h0);
+  psiEz[qa] = psa;
+  psiEz[qb] = psb;
+  ez[ik] = ea + cba * psa;
+  ez[jk] = eb + cbb * psb;
 }
 
 /**
@@ -1599,7 +1667,7 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
   }
   const plan = freeSpacePlan(f, kTop);
   const { lo, hi, free, graded, topFree } = plan;
-  const tc = pz > 0 ? topCoefficients(p!) : undefined;
+  const tc = p ? topCoefficients(p) : undefined;
   const head = Math.min(2, nz);
   // the axis column, rows below the top layer, update after update; then its rows in the top layer
   hRows(f, 0, 0, kTop);
@@ -1646,6 +1714,6 @@ export function leapfrogStep(f: YeeFields, p?: CpmlState, z?: ImpedanceRow): voi
   }
   // the far-side layer's columns, two at a time, each pair whole; the last alone when the count is odd
   let j = 0;
-  for (; ix0 + j + 1 < nx; j += 2) farLayerPair(f, p!, z, j);
+  for (; ix0 + j + 1 < nx; j += 2) farLayerPair(f, p!, z, j, tc!);
   if (ix0 + j < nx) farLayerColumn(f, p!, z, j);
 }
