@@ -29,7 +29,7 @@ function smallCase(rangeM: number): CaseInput {
 }
 
 /**
- * Equal jobs: four of one range (two per thread when there are two), about 1 s each, so that a thread's start-up
+ * Equal jobs: four of one range (two per thread when there are two), 0.3–1 s each on this machine kind, so that a thread's start-up
  * and the pool's messages weigh as little beside the solving as in a real sweep.
  */
 const EQUAL_RANGES_M = [240_000, 240_000, 240_000, 240_000];
@@ -49,13 +49,32 @@ interface Timed {
 }
 
 /**
- * Wall seconds from handing `inputs` to a fresh pool of `threads` threads, in the given order, to the last result.
- * The pool's threads are started, and one warm-up case solved on each, before the clock starts.
+ * The warm-up cases each thread solves before the clock starts: a small one, then the timed jobs' kinds (two of the
+ * equal jobs; one of each unequal size). A sweep runs hundreds of cases a thread, so what it sees is the threads'
+ * steady state. V8 compiles the per-case functions (case parsing, grid building, `solve` itself) with its
+ * optimizing compiler only after they have run a few times, and a grid of another column parity takes kernel
+ * paths a first time; that compiling runs on helper threads, which on one solver thread have the idle core and on
+ * two compete with the solver threads. With one small warm-up case only, it happened inside the timed window: the
+ * speed-up read 1.81–1.92× where it reads 1.94–1.95× warmed, and single unequal jobs took 15–20 % longer beside
+ * another than alone (2026-12-03, 12:25 UTC, three rounds each).
  */
-async function timeOnPool(inputs: readonly CaseInput[], threads: number, warmUp: CaseInput): Promise<Timed & { jobS: number[] }> {
+function warmUpCases(rangesM: readonly number[]): CaseInput[] {
+  return [smallCase(20_000), ...rangesM.map(smallCase)];
+}
+
+/** Solve the warm-up cases on every thread of `pool`, one round per case (each thread takes one per round). */
+async function warmUpPool(pool: SolverPool, threads: number, warmUp: readonly CaseInput[]): Promise<void> {
+  for (const [w, c] of warmUp.entries()) await Promise.all(Array.from({ length: threads }, (_, t) => pool.run(c, `warm-up-${w}-${t}`)));
+}
+
+/**
+ * Wall seconds from handing `inputs` to a fresh pool of `threads` threads, in the given order, to the last result.
+ * The pool's threads are started, and warmed up (warmUpCases), before the clock starts.
+ */
+async function timeOnPool(inputs: readonly CaseInput[], threads: number, warmUp: readonly CaseInput[]): Promise<Timed & { jobS: number[] }> {
   const pool = new SolverPool({ threads });
   try {
-    await Promise.all(Array.from({ length: threads }, (_, t) => pool.run(warmUp, `warm-up-${t}`)));
+    await warmUpPool(pool, threads, warmUp);
     const cpu0 = process.cpuUsage();
     const t0 = performance.now();
     const results = await Promise.all(inputs.map((input, j) => pool.run(input, `scaling-${j}`)));
@@ -69,10 +88,10 @@ async function timeOnPool(inputs: readonly CaseInput[], threads: number, warmUp:
 }
 
 /** Each job alone on one thread, one after another: its own duration, no other job beside it. */
-async function timeAlone(inputs: readonly CaseInput[], warmUp: CaseInput): Promise<number[]> {
+async function timeAlone(inputs: readonly CaseInput[], warmUp: readonly CaseInput[]): Promise<number[]> {
   const pool = new SolverPool({ threads: 1 });
   try {
-    await pool.run(warmUp, 'warm-up');
+    await warmUpPool(pool, 1, warmUp);
     const out: number[] = [];
     for (let j = 0; j < inputs.length; j++) {
       const t0 = performance.now();
@@ -147,9 +166,10 @@ async function main(): Promise<void> {
   const opts = program.opts<{ json?: boolean; repeats: number; native: boolean; nativeDir: string }>();
   const log = (s: string): void => void process.stderr.write(s + '\n');
   const loadAverageBefore = loadavg();
-  const warmUp = smallCase(20_000);
 
   const equalInputs = EQUAL_RANGES_M.map(smallCase);
+  const equalWarmUp = warmUpCases(EQUAL_RANGES_M.slice(0, 2));
+  const unequalWarmUp = warmUpCases(UNEQUAL_RANGES_M);
   // longest first by the solver's cost estimate, the order `run` dispatches in (coordinator/sweep/plan.ts)
   const cost = (r: number): number => estimateCost(parseCase(smallCase(r), 'scaling case')).cell_updates;
   const startOrder = [...UNEQUAL_RANGES_M].sort((a, b) => cost(b) - cost(a));
@@ -158,12 +178,12 @@ async function main(): Promise<void> {
   const equalRounds: EqualRound[] = [];
   const unequalRounds: UnequalRound[] = [];
   for (let r = 0; r < opts.repeats; r++) {
-    const one = await timeOnPool(equalInputs, 1, warmUp);
-    const two = await timeOnPool(equalInputs, 2, warmUp);
+    const one = await timeOnPool(equalInputs, 1, equalWarmUp);
+    const two = await timeOnPool(equalInputs, 2, equalWarmUp);
     equalRounds.push({ oneThreadS: one.wallS, twoThreadsS: two.wallS, speedup: one.wallS / two.wallS, cpuShareOne: one.cpuShare, cpuShareTwo: two.cpuShare });
     log(`  equal jobs, round ${r + 1}/${opts.repeats}: 1 thread ${one.wallS.toFixed(2)} s, 2 threads ${two.wallS.toFixed(2)} s`);
-    const aloneS = await timeAlone(unequalInputs, warmUp);
-    const made = await timeOnPool(unequalInputs, 2, warmUp);
+    const aloneS = await timeAlone(unequalInputs, unequalWarmUp);
+    const made = await timeOnPool(unequalInputs, 2, unequalWarmUp);
     const total = aloneS.reduce((s, x) => s + x, 0);
     const lowerBoundS = Math.max(Math.max(...aloneS), total / 2);
     const sharedBoundS = Math.max(Math.max(...made.jobS), made.jobS.reduce((s, x) => s + x, 0) / 2);
@@ -236,7 +256,8 @@ async function main(): Promise<void> {
   out.push(`loamwave pool scaling benchmark, ${report.date}`);
   out.push(`node ${report.node}, ${report.cpu}; load average before ${loads(loadAverageBefore)}, after ${loads(report.loadAverageAfter)}`);
   out.push(`${opts.repeats} alternations; each ratio within one alternation, median [smallest–largest]; CPU share = the`);
-  out.push('process\'s CPU s (all threads) / wall s, median: 1 thread ≈ 1 and 2 threads ≈ 2 when the cores were ours');
+  out.push('process\'s CPU s (all threads) / wall s, median: 1 thread ≈ 1 and 2 threads ≈ 2 when the cores were ours;');
+  out.push('each pool\'s threads first solve a small case and the timed jobs\' kinds (a sweep\'s steady state: see warmUpCases)');
   out.push('');
   const e = report.equal;
   out.push(`(a) ${EQUAL_RANGES_M.length} equal jobs (${EQUAL_RANGES_M[0] / 1000} km each): 1 thread ${median(equalRounds.map((x) => x.oneThreadS)).toFixed(2)} s, 2 threads ${median(equalRounds.map((x) => x.twoThreadsS)).toFixed(2)} s (medians)`);
