@@ -1166,9 +1166,9 @@ function topLayerPair(f: YeeFields, p: CpmlState, i: number): void {
 /**
  * topLayerPair where both columns' rows in the layer are lossless with the constants (FreeSpacePlan.topFree):
  * ca = 1, Ex's cb free[0], chz free[2]; Ez's cb from the arrays (1·x = x exactly: the same numbers); the CPML
- * coefficients from one row of `tc` (topCoefficients).
+ * coefficients from one row of `tc` (topCoefficients). Rows k0 (default: the layer's first) … nz−1.
  */
-function topLayerPairLossless(f: YeeFields, p: CpmlState, i: number, free: Float64Array, tc: Float64Array): void {
+function topLayerPairLossless(f: YeeFields, p: CpmlState, i: number, free: Float64Array, tc: Float64Array, k0 = p.kz0): void {
   const { nz, S, ex, ez, hy, chx, cbEz } = f;
   const cb = free[0], c = free[2];
   const { kz0, pz, psiHz, psiEx } = p;
@@ -1178,9 +1178,9 @@ function topLayerPairLossless(f: YeeFields, p: CpmlState, i: number, free: Float
   const pa = f.rp[i], ma = f.rm[i], pb = f.rp[i + 1], mb = f.rm[i + 1];
   const ta = (i * pz - kz0) | 0; // ψ index = row + ta (column i), row + ta + pz (column i+1)
   const tb = (ta + pz) | 0;
-  let xa = ex[a + kz0], xb = ex[a + S + kz0];
-  let ha = hy[a + kz0 - 1], hb = hy[a + S + kz0 - 1];
-  for (let k = kz0; k < nz; k++) {
+  let xa = ex[a + k0], xb = ex[a + S + k0];
+  let ha = hy[a + k0 - 1], hb = hy[a + S + k0 - 1];
+  for (let k = k0; k < nz; k++) {
     const ik = (a + k) | 0;
     const jk = (ik + S) | 0;
     const j4 = ((k - kz0) << 2) | 0;
@@ -1312,43 +1312,8 @@ function topLayerPairFree(f: YeeFields, p: CpmlState, i: number, free: Float64Ar
     ha = ha1;
     hb = hb1;
   }
-  for (; k < nz; k++) {
-    const ik = (a + k) | 0;
-    const jk = (ik + S) | 0;
-    const j4 = ((k - kz0) << 2) | 0;
-    const bh = tc[j4], ah = tc[(j4 + 1) | 0], be = tc[(j4 + 2) | 0], ae = tc[(j4 + 3) | 0];
-    const xa1 = ex[(ik + 1) | 0], xb1 = ex[(jk + 1) | 0];
-    const za = ez[ik], zb = ez[jk], zc = ez[(jk + S) | 0];
-    const dxa = xa1 - xa, dxb = xb1 - xb;
-    // Hy += chx·ΔEz − chz·ΔEx, then ψ ← bψ + a·ΔEx, Hy −= chz·ψ
-    let h0 = hy[ik] + (chx * (zb - za) - c * dxa);
-    let h1 = hy[jk] + (chx * (zc - zb) - c * dxb);
-    const qa = (k + ta) | 0, qb = (k + tb) | 0;
-    const psa = bh * psiHz[qa] + ah * dxa;
-    const psb = bh * psiHz[qb] + ah * dxb;
-    psiHz[qa] = psa;
-    psiHz[qb] = psb;
-    h0 -= c * psa;
-    h1 -= c * psb;
-    hy[ik] = h0;
-    hy[jk] = h1;
-    // Ex = Ex + cb·ΔHy, then ψ ← bψ + a·ΔHy, Ex += cb·ψ; Ez = Ez + cb·(r₊Hy − r₋Hy(i−1))
-    const dha = ha - h0, dhb = hb - h1;
-    const ea = xa + cb * dha;
-    const eb = xb + cb * dhb;
-    const pea = be * psiEx[qa] + ae * dha;
-    const peb = be * psiEx[qb] + ae * dhb;
-    psiEx[qa] = pea;
-    psiEx[qb] = peb;
-    ex[ik] = ea + cb * pea;
-    ex[jk] = eb + cb * peb;
-    ez[ik] = za + cz * (pa * h0 - ma * hy[(ik - S) | 0]);
-    ez[jk] = zb + cz * (pb * h1 - mb * h0);
-    xa = xa1;
-    xb = xb1;
-    ha = h0;
-    hb = h1;
-  }
+  // an odd row left at the top: the one-row loop (Ez's cb read from the arrays is cbEz0 here, the same numbers)
+  if (k < nz) topLayerPairLossless(f, p, i, free, tc, k);
 }
 
 /**

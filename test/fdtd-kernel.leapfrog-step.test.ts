@@ -186,11 +186,13 @@ function largestFloat32Difference(a: Grid, b: Grid): number {
   return worst;
 }
 
-// nx, nz, px, pz, free rows [lo, hi): a free run in the middle, one reaching into the top layer, one from row 0, none
+// nx, nz, px, pz, free rows [lo, hi): a free run in the middle, one reaching into the top layer (of even and of odd
+// height: the top layer goes two rows a pass), one from row 0, none
 // at all, a top layer down to the ground rows (kz0 < 2), a far layer from column 0, no top layer, a grid one row high.
 const SHAPES: Array<[string, number, number, number, number, number, number]> = [
   ['a free-space run mid-column', 37, 29, 9, 11, 6, 15],
   ['free space up into the top layer', 32, 24, 8, 8, 3, 24],
+  ['free space up into a top layer of odd height', 31, 23, 7, 7, 3, 23],
   ['free space from the ground row', 21, 17, 6, 5, 0, 12],
   ['no free-space rows', 19, 13, 4, 4, 0, 0],
   ['a top layer down to row 1', 13, 9, 3, 8, 2, 9],
