@@ -1225,12 +1225,20 @@ function topLayerPairLossless(f: YeeFields, p: CpmlState, i: number, free: Float
  * the loop instead of four (V8 re-checks each typed array on every pass). Kept per CpmlState; its coefficient
  * arrays must not be changed in place, as the kernel's other plans assume of theirs.
  */
-const topCoefficientCache = new WeakMap<CpmlState, { from: Float64Array[]; tc: Float64Array }>();
+interface TopCoefficients {
+  readonly bHz: Float64Array;
+  readonly aHz: Float64Array;
+  readonly bEx: Float64Array;
+  readonly aEx: Float64Array;
+  readonly tc: Float64Array;
+}
 
+const topCoefficientCache = new WeakMap<CpmlState, TopCoefficients>();
+
+/** Called every step: a cache hit allocates nothing (the arrays it was built from compared by identity). */
 function topCoefficients(p: CpmlState): Float64Array {
-  const from = [p.bHz, p.aHz, p.bEx, p.aEx];
   const old = topCoefficientCache.get(p);
-  if (old && old.from.every((a, q) => a === from[q])) return old.tc;
+  if (old && old.bHz === p.bHz && old.aHz === p.aHz && old.bEx === p.bEx && old.aEx === p.aEx) return old.tc;
   const tc = new Float64Array(4 * p.pz);
   for (let j = 0; j < p.pz; j++) {
     tc[4 * j] = p.bHz[j];
@@ -1238,7 +1246,14 @@ function topCoefficients(p: CpmlState): Float64Array {
     tc[4 * j + 2] = p.bEx[j];
     tc[4 * j + 3] = p.aEx[j];
   }
-  topCoefficientCache.set(p, { from, tc });
+  // one store per field, not a literal: see yeeFields
+  const entry = {} as { -readonly [K in keyof TopCoefficients]: TopCoefficients[K] };
+  entry.bHz = p.bHz;
+  entry.aHz = p.aHz;
+  entry.bEx = p.bEx;
+  entry.aEx = p.aEx;
+  entry.tc = tc;
+  topCoefficientCache.set(p, entry);
   return tc;
 }
 
