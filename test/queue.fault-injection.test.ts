@@ -144,11 +144,13 @@ describe('a queued sweep under repeated faults', () => {
     await atLeast(42);
     await crashRedis(1000);
     await killWorkerMidJob();
-    // The very end: a worker, the collector, then Redis just as the collector completes the ledger.
+    // The very end: the collector, a worker, then Redis just as the collector completes the ledger. The collector
+    // goes first: hunting a worker mid-job may take seconds, in which a faster solver can finish the last jobs and
+    // let the collector complete the ledger and exit by itself before the SIGKILL.
     await atLeast(N - 8);
-    const lateWorkerKill = await killWorkerMidJob(5_000);
     await kill(collect2, 'collector');
     const collect3 = collect();
+    const lateWorkerKill = await killWorkerMidJob(5_000);
     await until('the ledger to be complete', () => doneInLedger(out) === N, 90_000);
     const completeMs = Date.now();
     await redis.crash();
